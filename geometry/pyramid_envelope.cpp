@@ -1,0 +1,410 @@
+#include "geometry/pyramid_envelope.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdint>
+#include <limits>
+#include <numbers>
+#include <stdexcept>
+#include <string>
+#include <vector>
+
+#include "geometry/convex_polygon.hpp"
+#include "geometry/facet_horizon.hpp"
+#include "geometry/tile_grid.hpp"
+
+namespace lumtrap::geometry {
+
+namespace {
+
+constexpr double kInf = std::numeric_limits<double>::infinity();
+
+// One periodic image of a pyramid that reaches into the tile.
+struct Instance {
+  double cx = 0, cy = 0, a = 0;          // centre (image coordinates), half base, µm
+  double x0 = 0, x1 = 0, y0 = 0, y1 = 0;  // base square, µm
+  std::uint32_t pid = 0;                 // index of the pyramid in the layout
+  int mx = 0, my = 0;                    // image shift in periods
+};
+
+// Tie-break where two facet planes coincide: the lower pyramid index, then the
+// lower image shift, keeps the area. Shifts are compared only with each
+// other, so the rule is the same in every periodic copy of the tile.
+bool has_priority(const Instance& k, const Instance& i) {
+  if (k.pid != i.pid) return k.pid < i.pid;
+  if (k.mx != i.mx) return k.mx < i.mx;
+  return k.my < i.my;
+}
+
+// Facet d: outward horizontal normal n = (kNx[d], kNy[d]); m = n turned +90°.
+// The facet plane of a pyramid centred at c with half base a is
+// z = tan(facet)·(a - n·(p - c)).
+constexpr int kNx[4] = {1, -1, 0, 0};
+constexpr int kNy[4] = {0, 0, 1, -1};
+
+// The plane a mesh piece lies in.
+struct Plane {
+  double cx = 0, cy = 0, a = 0;
+  int nx = 0, ny = 0;
+  bool flat = true;
+};
+
+// Items listed per bin of a grid (compressed rows).
+struct BinIndex {
+  std::size_t bins = 0;
+  std::vector<std::uint32_t> start;
+  std::vector<std::uint32_t> items;
+
+  // ranges(k, f) calls f(bin) for every bin item k goes in.
+  template <class Ranges>
+  void build(std::size_t nbins, std::size_t nitems, Ranges ranges) {
+    bins = nbins;
+    start.assign(nbins + 1, 0);
+    for (std::size_t k = 0; k < nitems; ++k) ranges(k, [&](std::size_t b) { ++start[b + 1]; });
+    for (std::size_t b = 0; b < nbins; ++b) start[b + 1] += start[b];
+    items.resize(start[nbins]);
+    std::vector<std::uint32_t> fill(start.begin(), start.end() - 1);
+    for (std::size_t k = 0; k < nitems; ++k)
+      ranges(k, [&](std::size_t b) { items[fill[b]++] = static_cast<std::uint32_t>(k); });
+  }
+
+  template <class F>
+  void for_each_in(std::size_t b, F&& f) const {
+    for (std::uint32_t s = start[b]; s < start[b + 1]; ++s) f(items[s]);
+  }
+};
+
+// Collapses sorted values closer than tol into one canonical value each (0 and
+// period kept exact).
+std::vector<double> canonical_breaks(std::vector<double> v, double period, double tol) {
+  std::sort(v.begin(), v.end());
+  std::vector<double> out;
+  std::size_t g = 0;
+  while (g < v.size()) {
+    std::size_t e = g + 1;
+    while (e < v.size() && v[e] - v[e - 1] <= tol) ++e;
+    double c = v[g];
+    for (std::size_t k = g; k < e; ++k)
+      if (v[k] == 0.0 || v[k] == period) c = v[k];
+    out.push_back(c);
+    g = e;
+  }
+  return out;
+}
+
+double snap_to(const std::vector<double>& canon, double v) {
+  auto it = std::lower_bound(canon.begin(), canon.end(), v);
+  double best = it != canon.end() ? *it : canon.back();
+  if (it != canon.begin() && std::abs(*(it - 1) - v) < std::abs(best - v)) best = *(it - 1);
+  return best;
+}
+
+class MeshWriter {
+ public:
+  MeshWriter(TileMesh& mesh, double tan_facet, double thin) : m_(mesh), t_(tan_facet), thin_(thin) {}
+
+  double z(const Plane& pl, Point2 p) const {
+    if (pl.flat) return 0.0;
+    const double zz = t_ * (pl.a - (pl.nx * (p.x - pl.cx) + pl.ny * (p.y - pl.cy)));
+    return zz > 0.0 ? zz : 0.0;
+  }
+
+  std::uint32_t vertex(double x, double y, double z) {
+    m_.vertices.emplace_back(x, y, z);
+    return static_cast<std::uint32_t>(m_.vertices.size() - 1);
+  }
+
+  // Adds triangle (i, j, k) if it is counter-clockwise and thicker than the
+  // cut tolerance (its height over its longest edge).
+  void triangle(std::uint32_t i, std::uint32_t j, std::uint32_t k) {
+    const auto &a = m_.vertices[i], &b = m_.vertices[j], &c = m_.vertices[k];
+    const double twice = (b.x() - a.x()) * (c.y() - a.y()) - (b.y() - a.y()) * (c.x() - a.x());
+    if (!(twice > 0)) return;
+    const double longest = std::max({std::hypot(b.x() - a.x(), b.y() - a.y()), std::hypot(c.x() - b.x(), c.y() - b.y()),
+                                     std::hypot(a.x() - c.x(), a.y() - c.y())});
+    if (twice / longest >= thin_) m_.triangles.push_back({i, j, k});
+  }
+
+  // Fans a convex polygon (global coordinates) from its first vertex, or from
+  // its centroid when it has collinear boundary vertices.
+  void fan(const Point2* v, int n, const Plane& pl, bool from_centroid) {
+    if (n < 3) return;
+    const std::uint32_t base = static_cast<std::uint32_t>(m_.vertices.size());
+    for (int i = 0; i < n; ++i) vertex(v[i].x, v[i].y, z(pl, v[i]));
+    if (from_centroid) {
+      Point2 c{0, 0};
+      for (int i = 0; i < n; ++i) {
+        c.x += v[i].x / n;
+        c.y += v[i].y / n;
+      }
+      const std::uint32_t ci = vertex(c.x, c.y, z(pl, c));
+      for (int i = 0; i < n; ++i) triangle(ci, base + i, base + (i + 1) % n);
+    } else {
+      for (int i = 1; i + 1 < n; ++i) triangle(base, base + i, base + i + 1);
+    }
+  }
+
+ private:
+  TileMesh& m_;
+  double t_;
+  double thin_;
+};
+
+}  // namespace
+
+TileMesh pyramid_envelope_mesh(const RandomPyramidLayout& layout, double facet_deg, EnvelopeStats* stats) {
+  const double P = layout.period;
+  if (!(P > 0))
+    throw std::invalid_argument("geometry/pyramid_envelope.cpp: layout period = " + std::to_string(P) +
+                                " (allowed: > 0)");
+  if (!(facet_deg > 0 && facet_deg < 90))
+    throw std::invalid_argument("geometry/pyramid_envelope.cpp: facet_deg = " + std::to_string(facet_deg) +
+                                " (allowed: 0 < facet_deg < 90)");
+  const double tan_facet = std::tan(facet_deg * std::numbers::pi / 180.0);
+  const auto& pyr = layout.pyramids;
+
+  double mean_base = 0.0;
+  for (const auto& p : pyr) mean_base += p.base / pyr.size();
+  // Cut tolerance (relative to an apex, where coordinates are a few sizes)
+  // and snapping tolerance for tile coordinates (up to the period), µm.
+  const double eps = 1e-12 * std::max(1.0, mean_base);
+  const double eps_tile = 2.0 * eps + 1e-14 * P;
+  const TileGrid grid(P, pyr.empty() ? P : mean_base, 2048);
+  const std::size_t nbins = static_cast<std::size_t>(grid.n) * grid.n;
+
+  // --- drop pyramids hidden whole under one other pyramid -----------------
+  // p_k >= p_i everywhere exactly when pyramid i's apex is not above p_k
+  // (cones of the same slope in the max-norm): a_k - |c_i - c_k|inf >= a_i,
+  // with the nearest periodic image of c_k. Equal pyramids: the lower index stays.
+  std::vector<char> hidden(pyr.size(), 0);
+  {
+    const double w = P / grid.n;
+    BinIndex wrap;  // each pyramid in every bin its base square reaches, wrapped around the tile
+    wrap.build(nbins, pyr.size(), [&](std::size_t k, auto&& put) {
+      const double h = 0.5 * pyr[k].base;
+      const long i0 = static_cast<long>(std::floor((pyr[k].cx - h) / w)) - 1;
+      const long i1 = static_cast<long>(std::floor((pyr[k].cx + h) / w)) + 1;
+      const long j0 = static_cast<long>(std::floor((pyr[k].cy - h) / w)) - 1;
+      const long j1 = static_cast<long>(std::floor((pyr[k].cy + h) / w)) + 1;
+      const long n = grid.n;
+      for (long j = j0; j <= std::min(j1, j0 + n - 1); ++j)
+        for (long i = i0; i <= std::min(i1, i0 + n - 1); ++i)
+          put(static_cast<std::size_t>(((j % n) + n) % n) * n + static_cast<std::size_t>(((i % n) + n) % n));
+    });
+    for (std::size_t i = 0; i < pyr.size(); ++i) {
+      const PlacedPyramid& p = pyr[i];
+      const std::size_t b = static_cast<std::size_t>(grid.first(p.cy)) * grid.n + grid.first(p.cx);
+      bool h = false;
+      wrap.for_each_in(b, [&](std::uint32_t k) {
+        if (h || k == i) return;
+        double dx = std::abs(p.cx - pyr[k].cx), dy = std::abs(p.cy - pyr[k].cy);
+        dx = std::min(dx, P - dx);
+        dy = std::min(dy, P - dy);
+        const double margin = 0.5 * pyr[k].base - std::max(dx, dy) - 0.5 * p.base;
+        if (margin > 0 || (margin == 0 && k < i)) h = true;
+      });
+      hidden[i] = h;
+    }
+  }
+
+  // --- images of the pyramids left that reach into the tile ---------------
+  std::vector<Instance> inst;
+  for (std::size_t i = 0; i < pyr.size(); ++i)
+    if (!hidden[i])
+      for_each_image(pyr[i], P, [&](const PyramidImage& s) {
+        inst.push_back({s.cx, s.cy, s.half, s.x0, s.x1, s.y0, s.y1, static_cast<std::uint32_t>(i), s.mx, s.my});
+      });
+  BinIndex index;
+  index.build(nbins, inst.size(), [&](std::size_t k, auto&& put) {
+    const Instance& s = inst[k];
+    const int i0 = grid.first(std::max(s.x0, 0.0)), i1 = grid.last(std::min(s.x1, P));
+    const int j0 = grid.first(std::max(s.y0, 0.0)), j1 = grid.last(std::min(s.y1, P));
+    for (int j = j0; j <= j1; ++j)
+      for (int i = i0; i <= i1; ++i) put(static_cast<std::size_t>(j) * grid.n + i);
+  });
+
+  TileMesh mesh;
+  mesh.period = P;
+  MeshWriter writer(mesh, tan_facet, eps);
+  EnvelopeStats st;
+  std::vector<char> visible(pyr.size(), 0);
+
+  // Pieces touching the tile boundary wait until all boundary vertices are known.
+  struct Held {
+    std::uint32_t first, count;
+    Plane plane;
+  };
+  std::vector<Held> held;
+  std::vector<Point2> held_pts;
+  std::vector<Point2> gpts;
+  auto snap_tile = [&](double v) {
+    if (std::abs(v) <= eps_tile) return 0.0;
+    if (std::abs(v - P) <= eps_tile) return P;
+    return v;
+  };
+  // Emits a convex piece given in global coordinates.
+  auto emit = [&](const std::vector<Point2>& g, const Plane& pl) {
+    bool on_edge = false;
+    for (const Point2& q : g) on_edge = on_edge || q.x == 0.0 || q.x == P || q.y == 0.0 || q.y == P;
+    if (on_edge) {
+      held.push_back({static_cast<std::uint32_t>(held_pts.size()), static_cast<std::uint32_t>(g.size()), pl});
+      held_pts.insert(held_pts.end(), g.begin(), g.end());
+    } else {
+      writer.fan(g.data(), static_cast<int>(g.size()), pl, false);
+    }
+  };
+
+  // --- facets ---------------------------------------------------------------
+  std::vector<std::uint32_t> stamp(inst.size(), 0), cands;
+  std::uint32_t stamp_now = 0;
+  FacetHorizon horizon;
+  std::vector<Point2> outline;
+  for (std::size_t ii = 0; ii < inst.size(); ++ii) {
+    const Instance& I = inst[ii];
+    ++stamp_now;
+    cands.clear();
+    const int bi0 = grid.first(std::max(I.x0, 0.0)), bi1 = grid.last(std::min(I.x1, P));
+    const int bj0 = grid.first(std::max(I.y0, 0.0)), bj1 = grid.last(std::min(I.y1, P));
+    for (int j = bj0; j <= bj1; ++j)
+      for (int i = bi0; i <= bi1; ++i)
+        index.for_each_in(static_cast<std::size_t>(j) * grid.n + i, [&](std::uint32_t k) {
+          if (k != ii && stamp[k] != stamp_now) {
+            stamp[k] = stamp_now;
+            cands.push_back(k);
+          }
+        });
+    // Larger pyramids first: they set most of the outline, so the smaller
+    // ones are mostly rejected at once.
+    std::sort(cands.begin(), cands.end(), [&](std::uint32_t p, std::uint32_t q) {
+      return inst[p].a > inst[q].a || (inst[p].a == inst[q].a && p < q);
+    });
+    const bool inside = I.x0 >= 0 && I.x1 <= P && I.y0 >= 0 && I.y1 <= P;
+    // Tile [0, P]² in coordinates relative to the apex.
+    const HalfPlane tile[4] = {{1, 0, I.cx}, {-1, 0, P - I.cx}, {0, 1, I.cy}, {0, -1, P - I.cy}};
+    std::uint32_t apex = UINT32_MAX;
+
+    for (int d = 0; d < 4; ++d) {
+      const int nx = kNx[d], ny = kNy[d], mx = -ny, my = nx;
+      // The facet's base edge: a neighbour hides part of the facet exactly
+      // when its base square overlaps this edge (what it hides is outward
+      // closed, see facet_horizon.hpp).
+      const double ex = I.cx + I.a * nx, ey = I.cy + I.a * ny;
+      const double ex0 = nx != 0 ? ex : I.cx - I.a, ex1 = nx != 0 ? ex : I.cx + I.a;
+      const double ey0 = ny != 0 ? ey : I.cy - I.a, ey1 = ny != 0 ? ey : I.cy + I.a;
+      horizon.reset(I.a);
+      bool buried = false;
+      for (std::uint32_t k : cands) {
+        const Instance& K = inst[k];
+        // (closed, with tolerance: a neighbour whose square only touches the
+        // edge hides nothing unless its facet plane coincides with this one)
+        if (!(K.x0 <= ex1 + eps && K.x1 >= ex0 - eps && K.y0 <= ey1 + eps && K.y1 >= ey0 - eps)) continue;
+        // Plane j of K minus this facet's plane f, over tan(facet), in the
+        // facet frame (u along n, w along m, v = w/u, s = 1/u), times s:
+        //   (1 - n_j·n) - v·(n_j·m) + C_j·s,  C_j = (a_K - a_I) - n_j·(c_I - c_K).
+        const double wx = I.cx - K.cx, wy = I.cy - K.cy, da = K.a - I.a;
+        const double nw = nx * wx + ny * wy, mw = mx * wx + my * wy;
+        const double c_same = da - nw;  // K's facet parallel to this one: a constant
+        if (c_same < -eps) continue;
+        if (c_same <= eps && !has_priority(K, I)) continue;  // coincident planes: tie-break
+        const double c_back = da + nw, c_m = da - mw, c_mm = da + mw;
+        const FacetOccluder occ{c_back < -eps ? 2.0 / -c_back : kInf, c_m < -eps ? 1.0 / -c_m : kInf,
+                                c_mm < -eps ? 1.0 / -c_mm : kInf};
+        if (!horizon.add(occ)) {
+          buried = true;
+          break;
+        }
+      }
+      if (buried) continue;
+      horizon.outline(outline);
+      ++st.facet_pieces;
+      visible[I.pid] = 1;
+      const Plane pl{I.cx, I.cy, I.a, nx, ny, false};
+      if (inside) {
+        if (apex == UINT32_MAX) apex = writer.vertex(I.cx, I.cy, tan_facet * I.a);
+        const std::uint32_t first = static_cast<std::uint32_t>(mesh.vertices.size());
+        for (const Point2& q : outline)
+          writer.vertex(I.cx + (q.x * nx + q.y * mx), I.cy + (q.x * ny + q.y * my), tan_facet * (I.a - q.x));
+        for (std::uint32_t j = 0; j + 1 < outline.size(); ++j) writer.triangle(apex, first + j, first + j + 1);
+      } else {
+        // Fan triangles clipped to the tile, in coordinates relative to the apex.
+        for (std::size_t j = 0; j + 1 < outline.size(); ++j) {
+          ConvexPolygon t;
+          t.n = 3;
+          t.v[0] = {0, 0};
+          t.v[1] = {outline[j].x * nx + outline[j].y * mx, outline[j].x * ny + outline[j].y * my};
+          t.v[2] = {outline[j + 1].x * nx + outline[j + 1].y * mx, outline[j + 1].x * ny + outline[j + 1].y * my};
+          for (int e = 0; e < 4 && !t.empty(); ++e) t = clip(t, tile[e], eps);
+          if (t.empty() || thickness(t) < eps) continue;
+          gpts.clear();
+          for (int v = 0; v < t.n; ++v) {
+            const Point2 g{snap_tile(I.cx + t.v[v].x), snap_tile(I.cy + t.v[v].y)};
+            if (gpts.empty() || g.x != gpts.back().x || g.y != gpts.back().y) gpts.push_back(g);
+          }
+          while (gpts.size() > 1 && gpts.back().x == gpts.front().x && gpts.back().y == gpts.front().y)
+            gpts.pop_back();
+          if (gpts.size() >= 3) emit(gpts, pl);
+        }
+      }
+    }
+  }
+
+  // --- flat region ------------------------------------------------------------
+  for (const FlatRect& r : layout.flat_regions) {
+    gpts = {{r.x0, r.y0}, {r.x1, r.y0}, {r.x1, r.y1}, {r.x0, r.y1}};
+    emit(gpts, Plane{});
+    ++st.flat_pieces;
+  }
+
+  // --- boundary: give both sides of each tile edge the same vertices ---------
+  {
+    std::vector<double> ys{0.0, P}, xs{0.0, P};
+    for (const Point2& q : held_pts) {
+      if (q.x == 0.0 || q.x == P) ys.push_back(q.y);
+      if (q.y == 0.0 || q.y == P) xs.push_back(q.x);
+    }
+    const std::vector<double> cy = canonical_breaks(std::move(ys), P, eps_tile);
+    const std::vector<double> cx = canonical_breaks(std::move(xs), P, eps_tile);
+    std::vector<Point2> poly, clean;
+    for (const Held& h : held) {
+      Point2* v = held_pts.data() + h.first;
+      for (std::uint32_t k = 0; k < h.count; ++k) {
+        if (v[k].x == 0.0 || v[k].x == P) v[k].y = snap_to(cy, v[k].y);
+        if (v[k].y == 0.0 || v[k].y == P) v[k].x = snap_to(cx, v[k].x);
+      }
+      poly.clear();
+      bool inserted = false;
+      for (std::uint32_t k = 0; k < h.count; ++k) {
+        const Point2 p = v[k], q = v[(k + 1) % h.count];
+        poly.push_back(p);
+        // Insert the canonical breaks lying inside a boundary edge.
+        const bool along_y = p.x == q.x && (p.x == 0.0 || p.x == P) && p.y != q.y;
+        const bool along_x = p.y == q.y && (p.y == 0.0 || p.y == P) && p.x != q.x;
+        if (!along_y && !along_x) continue;
+        const std::vector<double>& c = along_y ? cy : cx;
+        const double from = along_y ? p.y : p.x, to = along_y ? q.y : q.x;
+        auto b = std::upper_bound(c.begin(), c.end(), std::min(from, to));
+        auto e = std::lower_bound(c.begin(), c.end(), std::max(from, to));
+        if (b >= e) continue;
+        inserted = true;
+        auto put = [&](double s) { poly.push_back(along_y ? Point2{p.x, s} : Point2{s, p.y}); };
+        if (to > from)
+          for (auto it = b; it != e; ++it) put(*it);
+        else
+          for (auto it = e; it != b; --it) put(*(it - 1));
+      }
+      // Snapping may have merged neighbouring vertices.
+      clean.clear();
+      for (const Point2& q : poly)
+        if (clean.empty() || q.x != clean.back().x || q.y != clean.back().y) clean.push_back(q);
+      while (clean.size() > 1 && clean.back().x == clean.front().x && clean.back().y == clean.front().y)
+        clean.pop_back();
+      writer.fan(clean.data(), static_cast<int>(clean.size()), h.plane, inserted);
+    }
+  }
+
+  for (char v : visible) st.visible_pyramids += v != 0;
+  if (stats) *stats = st;
+  return mesh;
+}
+
+}  // namespace lumtrap::geometry

@@ -1,0 +1,19 @@
+#pragma once
+// The lumtrap command line: each subcommand registers itself on the app and
+// runs through the callback it installs. Exit codes: 0 success, 1 bad input
+// or failure (message on stderr), 130 interrupted (work so far is kept).
+#include <CLI/CLI.hpp>
+
+namespace lumtrap::cli {
+
+void add_run_command(CLI::App& app);       // lumtrap run SCENE
+void add_planar_command(CLI::App& app);    // lumtrap planar SCENE
+void add_check_command(CLI::App& app);     // lumtrap check SCENE
+void add_materials_command(CLI::App& app); // lumtrap materials
+
+/// Thrown by commands to end with a given exit code after a message.
+struct ExitCode {
+  int code;
+};
+
+}  // namespace lumtrap::cli

@@ -1,0 +1,29 @@
+// lumtrap: ray-tracing light-trapping analysis of textured, coated,
+// metallised silicon wafers. See README.md.
+#include <exception>
+#include <iostream>
+
+#include "cli/commands.hpp"
+
+int main(int argc, char** argv) {
+  CLI::App app{"lumtrap " LUMTRAP_VERSION
+               ": light trapping in textured, coated, metallised silicon wafers "
+               "(ray tracing; J_G and losses under AM1.5G)"};
+  app.set_version_flag("--version", std::string("lumtrap ") + LUMTRAP_VERSION);
+  app.require_subcommand(1);
+  lumtrap::cli::add_run_command(app);
+  lumtrap::cli::add_planar_command(app);
+  lumtrap::cli::add_check_command(app);
+  lumtrap::cli::add_materials_command(app);
+  try {
+    app.parse(argc, argv);
+  } catch (const CLI::ParseError& e) {
+    return app.exit(e);
+  } catch (const lumtrap::cli::ExitCode& e) {
+    return e.code;
+  } catch (const std::exception& e) {
+    std::cerr << "lumtrap: error: " << e.what() << "\n";
+    return 1;
+  }
+  return 0;
+}

@@ -1,0 +1,120 @@
+#pragma once
+// The validated scene: plain structs, SI-free internal units (nm for
+// wavelengths and film thicknesses, µm for wafer and texture lengths,
+// radians for angles). Produced by parse_scene (scene_parser.hpp) from a
+// TOML scene file; everything downstream reads only these structs.
+// The file format is documented in docs/scene-format.md.
+#include <cstdint>
+#include <filesystem>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "geometry/textures.hpp"
+
+namespace lumtrap {
+
+/// A material reference as written in the scene: an id of a shipped table,
+/// a path to a CSV file, or a constant index.
+struct MaterialRef {
+  std::string id_or_path;     ///< empty when constant
+  bool constant = false;
+  double n = 1.0, k = 0.0;    ///< when constant
+  std::string describe() const;  ///< "si_green2008", "path/x.csv" or "n=2, k=0"
+};
+
+struct Film {
+  MaterialRef material;
+  double thickness_nm = 0;
+};
+
+enum class TextureKind { planar, upright_pyramids, inverted_pyramids, random_pyramids };
+
+/// How thick a film is on an inclined facet, given its thickness as
+/// deposited on a planar wafer.
+enum class Conformality {
+  conformal,    ///< same thickness normal to every facet (default)
+  directional,  ///< thickness × cos(facet tilt), as for line-of-sight deposition
+};
+
+enum class SurfaceScattering {
+  specular,    ///< mirror reflection and Snell refraction on the facets (default)
+  lambertian,  ///< every reflected and transmitted ray leaves cosine-distributed
+  mixed,       ///< a fraction `diffuse_fraction` Lambertian, the rest specular
+};
+
+struct Texture {
+  TextureKind kind = TextureKind::planar;
+  double base_um = 5.0;          ///< upright/inverted: pyramid base
+  double gap_um = 0.0;           ///< upright/inverted: flat gap between pyramids
+  double facet_deg = geometry::kFacet111Deg;
+  geometry::RandomPyramidsSpec random;  ///< random_pyramids
+};
+
+/// What decides reflection and transmission at a surface.
+enum class InterfaceModel {
+  films,  ///< Fresnel equations with the coherent film stack (default)
+  ideal,  ///< no reflection wherever refraction is possible, total internal
+          ///< reflection beyond the critical angle, no absorption: the
+          ///< textbook "all light enters" surface of light-trapping limits
+};
+
+struct Surface {
+  Texture texture;
+  InterfaceModel interface_model = InterfaceModel::films;
+  std::vector<Film> films;   ///< front: from the ambient inwards; rear: from the silicon outwards
+  Conformality conformality = Conformality::conformal;
+  SurfaceScattering scattering = SurfaceScattering::specular;
+  double diffuse_fraction = 0.0;   ///< for mixed
+};
+
+enum class SpectrumKind { am15g, am15d, am0, file };
+enum class PolarizationKind { unpolarized, s, p };
+enum class IlluminationKind { collimated, diffuse };
+
+struct Illumination {
+  SpectrumKind spectrum = SpectrumKind::am15g;
+  std::filesystem::path spectrum_file;   ///< when SpectrumKind::file
+  IlluminationKind kind = IlluminationKind::collimated;
+  double polar_rad = 0.0;                ///< angle from the wafer normal, [0, 90°)
+  double azimuth_rad = 0.0;              ///< from the texture's x axis
+  PolarizationKind polarization = PolarizationKind::unpolarized;
+  std::vector<double> wavelengths_nm;    ///< strictly increasing
+};
+
+/// Which distance "thickness" means on a textured wafer.
+enum class ThicknessConvention {
+  mean,   ///< rear plane to the mean front height (equal silicon volume; default)
+  base,   ///< rear plane to the lowest front level (pyramid bases)
+  apex,   ///< rear plane to the highest front point
+};
+
+struct Wafer {
+  MaterialRef material;               ///< bulk, default "si_green2008"
+  double thickness_um = 180.0;
+  ThicknessConvention thickness_convention = ThicknessConvention::mean;
+};
+
+struct RunSettings {
+  std::uint64_t photons = 10000;      ///< per wavelength
+  std::uint64_t seed = 1;
+  int max_bounces = 10000;            ///< surface interactions per photon before it counts as unresolved
+  bool randomize_lateral = true;      ///< new random lateral position on each bulk crossing
+  int threads = 0;                    ///< 0 = all cores
+  bool depth_histograms = false;      ///< also write per-wavelength depth histograms
+  double target_jg_error = 0.0;       ///< mA/cm²; > 0: run until σ(J_G) <= target (photons is then a cap)
+};
+
+struct Scene {
+  std::filesystem::path file;         ///< where it was read from
+  std::string name;                   ///< [scene] name, default: file stem
+  MaterialRef ambient;                ///< medium above the front, default air n = 1
+  Wafer wafer;
+  Surface front, rear;
+  MaterialRef rear_medium;            ///< below the rear films: air (default) or a metal
+  bool rear_perfect_mirror = false;   ///< rear.medium = "perfect_mirror": R = 1 at every angle, no films
+  Illumination illumination;
+  RunSettings run;
+};
+
+}  // namespace lumtrap

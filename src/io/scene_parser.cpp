@@ -1,0 +1,1038 @@
+// Scene file reading, validation and resolved writing. See scene_parser.hpp
+// and docs/scene-format.md.
+#include "io/scene_parser.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <climits>
+#include <cmath>
+#include <cstdint>
+#include <sstream>
+#include <string_view>
+#include <utility>
+#include <vector>
+
+#include "io/units.hpp"
+#include "optics/material.hpp"
+#include "optics/spectrum.hpp"
+
+namespace lumtrap {
+namespace fs = std::filesystem;
+
+namespace {
+
+constexpr double kTwoPi = 6.28318530717958647692;
+constexpr std::size_t kMaxWavelengths = 100000;
+/// (to - from)/step may differ from a whole number by this many steps.
+constexpr double kStepTolerance = 1e-6;
+/// A random-pyramid tile must be at least this many mean pyramid sizes wide,
+/// so that a tile holds enough pyramids to sample the size distribution.
+constexpr double kMinTileOverMeanSize = 4.0;
+
+// ---------------------------------------------------------------------------
+// Enum words, shared by reading and writing.
+
+template <class E>
+using Words = std::vector<std::pair<std::string_view, E>>;
+
+const Words<TextureKind> kTextureWords = {{"planar", TextureKind::planar},
+                                          {"upright_pyramids", TextureKind::upright_pyramids},
+                                          {"inverted_pyramids", TextureKind::inverted_pyramids},
+                                          {"random_pyramids", TextureKind::random_pyramids}};
+const Words<Conformality> kConformalityWords = {{"conformal", Conformality::conformal},
+                                                {"directional", Conformality::directional}};
+const Words<SurfaceScattering> kScatteringWords = {{"specular", SurfaceScattering::specular},
+                                                   {"lambertian", SurfaceScattering::lambertian},
+                                                   {"mixed", SurfaceScattering::mixed}};
+const Words<InterfaceModel> kInterfaceWords = {{"films", InterfaceModel::films},
+                                               {"ideal", InterfaceModel::ideal}};
+const Words<ThicknessConvention> kConventionWords = {{"mean", ThicknessConvention::mean},
+                                                     {"base", ThicknessConvention::base},
+                                                     {"apex", ThicknessConvention::apex}};
+const Words<geometry::SizeDistribution> kDistributionWords = {
+    {"fixed", geometry::SizeDistribution::fixed},
+    {"uniform", geometry::SizeDistribution::uniform},
+    {"normal", geometry::SizeDistribution::normal},
+    {"lognormal", geometry::SizeDistribution::lognormal}};
+const Words<IlluminationKind> kIlluminationWords = {{"collimated", IlluminationKind::collimated},
+                                                    {"diffuse", IlluminationKind::diffuse}};
+const Words<PolarizationKind> kPolarizationWords = {{"unpolarized", PolarizationKind::unpolarized},
+                                                    {"s", PolarizationKind::s},
+                                                    {"p", PolarizationKind::p}};
+const Words<SpectrumKind> kSpectrumWords = {{"AM1.5G", SpectrumKind::am15g},
+                                            {"AM1.5D", SpectrumKind::am15d},
+                                            {"AM0", SpectrumKind::am0}};
+
+template <class E>
+std::string_view word_of(E e, const Words<E>& words) {
+  for (const auto& [w, v] : words)
+    if (v == e) return w;
+  return "?";
+}
+
+template <class E>
+std::string word_list(const Words<E>& words) {
+  std::string s;
+  for (const auto& [w, v] : words) s += (s.empty() ? "\"" : ", \"") + std::string(w) + "\"";
+  return s;
+}
+
+std::string join(const std::vector<std::string_view>& items, std::string_view sep) {
+  std::string s;
+  for (std::size_t i = 0; i < items.size(); ++i) {
+    if (i) s += sep;
+    s += items[i];
+  }
+  return s;
+}
+
+// ---------------------------------------------------------------------------
+// Showing values in messages and writing them as TOML.
+
+/// A TOML basic string: "..." with the escapes TOML requires.
+std::string toml_quote(std::string_view s) {
+  std::string out = "\"";
+  for (char c : s) {
+    switch (c) {
+      case '"': out += "\\\""; break;
+      case '\\': out += "\\\\"; break;
+      case '\n': out += "\\n"; break;
+      case '\t': out += "\\t"; break;
+      case '\r': out += "\\r"; break;
+      case '\b': out += "\\b"; break;
+      case '\f': out += "\\f"; break;
+      default:
+        if (static_cast<unsigned char>(c) < 0x20 || c == 0x7F)
+          out += fmt::format("\\u{:04X}", static_cast<unsigned>(static_cast<unsigned char>(c)));
+        else
+          out += c;
+    }
+  }
+  return out + "\"";
+}
+
+/// A TOML float or integer as text (inf and nan are valid TOML floats).
+std::string show_float(double x) {
+  if (std::isnan(x)) return "nan";
+  if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
+  std::string s = format_number(x);
+  if (s.find_first_of(".eE") == std::string::npos) s += ".0";
+  return s;
+}
+
+/// The value of a node as it would read in TOML, for messages.
+std::string show(const toml::node& n) {
+  if (auto* s = n.as_string()) return toml_quote(s->get());
+  if (auto* i = n.as_integer()) return std::to_string(i->get());
+  if (auto* f = n.as_floating_point()) return show_float(f->get());
+  if (auto* b = n.as_boolean()) return b->get() ? "true" : "false";
+  if (auto* a = n.as_array()) {
+    std::string s = "[";
+    for (std::size_t i = 0; i < a->size(); ++i) {
+      if (i == 6) {
+        s += ", ...";
+        break;
+      }
+      s += (i ? ", " : "") + show(*a->get(i));
+    }
+    return s + "]";
+  }
+  if (auto* t = n.as_table()) {
+    std::string s = "{";
+    bool first = true;
+    for (auto&& [k, v] : *t) {
+      s += (first ? " " : ", ") + std::string(k.str()) + " = " + show(v);
+      first = false;
+    }
+    return s + (first ? "}" : " }");
+  }
+  std::ostringstream os;  // dates and times
+  if (auto* d = n.as_date()) os << *d;
+  else if (auto* tm = n.as_time()) os << *tm;
+  else if (auto* dt = n.as_date_time()) os << *dt;
+  return os.str();
+}
+
+std::string_view type_name(const toml::node& n) {
+  if (n.is_string()) return "a string";
+  if (n.is_integer()) return "an integer";
+  if (n.is_floating_point()) return "a float";
+  if (n.is_boolean()) return "a boolean";
+  if (n.is_array()) return "an array";
+  if (n.is_table()) return "a table";
+  return "a date/time";
+}
+
+/// Levenshtein distance, for "did you mean" hints on unknown keys.
+std::size_t edit_distance(std::string_view a, std::string_view b) {
+  std::vector<std::size_t> row(b.size() + 1);
+  for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
+  for (std::size_t i = 1; i <= a.size(); ++i) {
+    std::size_t diag = row[0];
+    row[0] = i;
+    for (std::size_t j = 1; j <= b.size(); ++j) {
+      const std::size_t up = row[j];
+      row[j] = std::min({row[j] + 1, row[j - 1] + 1, diag + (a[i - 1] == b[j - 1] ? 0 : 1)});
+      diag = up;
+    }
+  }
+  return row[b.size()];
+}
+
+bool is_plain_id(std::string_view s) {
+  return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) {
+    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '_' ||
+           c == '-';
+  });
+}
+
+std::string trimmed(std::string_view s) {
+  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
+  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
+  return std::string(s);
+}
+
+std::string upper(std::string s) {
+  for (char& c : s)
+    if (c >= 'a' && c <= 'z') c = static_cast<char>(c - 'a' + 'A');
+  return s;
+}
+
+std::string child_key(const std::string& path, std::string_view key) {
+  return path.empty() ? std::string(key) : path + "." + std::string(key);
+}
+
+// ---------------------------------------------------------------------------
+// The validating reader.
+
+/// A material named somewhere in the scene, kept to check that it covers
+/// every run wavelength once the wavelengths are known.
+struct MaterialUse {
+  std::string key;
+  std::string where;    ///< "FILE:L:C", or empty for a default (then: the wavelengths' position)
+  std::string shown;    ///< the value as written, or `"air" (default)`
+  Material material;
+};
+
+class SceneReader {
+ public:
+  SceneReader(const fs::path& file) : file_(file) {
+    std::error_code ec;
+    fs::path abs = file.empty() ? fs::current_path(ec) / "scene.toml" : fs::absolute(file, ec);
+    dir_ = abs.lexically_normal().parent_path();
+  }
+
+  Scene read(const toml::table& root, const std::set<std::string>& ignored);
+
+ private:
+  fs::path file_, dir_;
+  bool rear_mirror_ = false;  // rear.medium = "perfect_mirror"
+  std::vector<MaterialUse> uses_;
+  std::string wavelengths_where_;
+
+  // --- messages ------------------------------------------------------------
+  std::string where(const toml::source_region& r) const {
+    if (r.begin.line == 0) return file_.string();
+    return fmt::format("{}:{}:{}", file_.string(), r.begin.line, r.begin.column);
+  }
+  [[noreturn]] void fail_at(const toml::source_region& r, const std::string& key,
+                            const std::string& what) const {
+    throw SceneError(fmt::format("{}: key '{}': {}", where(r), key, what));
+  }
+  [[noreturn]] void fail_value(const toml::node& n, const std::string& key,
+                               const std::string& what) const {
+    fail_at(n.source(), key, "value " + show(n) + ": " + what);
+  }
+  [[noreturn]] void fail_missing(const toml::table& t, const std::string& key,
+                                 const std::string& what) const {
+    fail_at(t.source(), key, "missing; required: " + what);
+  }
+
+  // --- structure -----------------------------------------------------------
+  /// Every key of `t` must be in `allowed` (or in `ignored`).
+  void check_keys(const toml::table& t, const std::string& path,
+                  const std::vector<std::string_view>& allowed,
+                  const std::set<std::string>& ignored = {}) const {
+    for (auto&& [k, v] : t) {
+      const std::string_view name = k.str();
+      if (ignored.count(std::string(name))) continue;
+      if (std::find(allowed.begin(), allowed.end(), name) != allowed.end()) continue;
+      std::string hint;
+      for (std::string_view a : allowed)
+        if (edit_distance(name, a) <= 2) {
+          hint = fmt::format(" (did you mean '{}'?)", a);
+          break;
+        }
+      const toml::source_region& r = k.source().begin.line ? k.source() : v.source();
+      const std::string table = path.empty() ? "at the top level" : "in [" + path + "]";
+      fail_at(r, child_key(path, name),
+              fmt::format("value {}: unknown key{}; allowed keys {}: {}", show(v), hint, table,
+                          join(allowed, ", ")));
+    }
+  }
+
+  /// The sub-table `key` of `t`, or nullptr when absent.
+  const toml::table* sub_table(const toml::table& t, const std::string& path, std::string_view key) const {
+    const toml::node* n = t.get(key);
+    if (!n) return nullptr;
+    const std::string k = child_key(path, key);
+    if (!n->is_table())
+      fail_value(*n, k, fmt::format("{} where a table was expected; allowed: a table [{}]", type_name(*n), k));
+    return n->as_table();
+  }
+
+  // --- scalar values ---------------------------------------------------------
+  const std::string& string_value(const toml::node& n, const std::string& key,
+                                  std::string_view allowed) const {
+    if (!n.is_string())
+      fail_value(n, key, fmt::format("{} where a string was expected; allowed: {}", type_name(n), allowed));
+    return n.as_string()->get();
+  }
+
+  template <class E>
+  E word(const toml::node& n, const std::string& key, const Words<E>& words) const {
+    const std::string allowed = "one of " + word_list(words);
+    const std::string& s = string_value(n, key, allowed);
+    for (const auto& [w, v] : words)
+      if (s == w) return v;
+    fail_value(n, key, "unknown word; allowed: " + allowed);
+  }
+
+  template <class E>
+  E word_or(const toml::table& t, const std::string& path, std::string_view key, const Words<E>& words,
+            E fallback) const {
+    const toml::node* n = t.get(key);
+    return n ? word(*n, child_key(path, key), words) : fallback;
+  }
+
+  double number(const toml::node& n, const std::string& key, std::string_view allowed) const {
+    double x;
+    if (auto* i = n.as_integer())
+      x = static_cast<double>(i->get());
+    else if (auto* f = n.as_floating_point())
+      x = f->get();
+    else
+      fail_value(n, key, fmt::format("{} where a number was expected; allowed: {}", type_name(n), allowed));
+    if (!std::isfinite(x)) fail_value(n, key, fmt::format("not a finite number; allowed: {}", allowed));
+    return x;
+  }
+
+  std::int64_t integer(const toml::node& n, const std::string& key, std::int64_t lo, std::int64_t hi,
+                       std::string_view allowed) const {
+    auto* i = n.as_integer();
+    if (!i)
+      fail_value(n, key, fmt::format("{} where an integer was expected; allowed: {}", type_name(n), allowed));
+    if (i->get() < lo || i->get() > hi) fail_value(n, key, fmt::format("out of range; allowed: {}", allowed));
+    return i->get();
+  }
+
+  bool boolean(const toml::node& n, const std::string& key) const {
+    if (auto* b = n.as_boolean()) return b->get();
+    fail_value(n, key, fmt::format("{} where a boolean was expected; allowed: true, false", type_name(n)));
+  }
+
+  /// A quantity with a unit, read by `parse` (units.hpp). `example` is shown
+  /// for bare numbers ("75 nm").
+  template <class Parse>
+  double quantity(const toml::node& n, const std::string& key, Parse parse, std::string_view example,
+                  std::string_view allowed_units) const {
+    if (n.is_number())
+      fail_value(n, key,
+                 fmt::format("a bare number; write the unit: e.g. \"{} {}\"; allowed units: {}", show(n),
+                             example, allowed_units));
+    const std::string& s = string_value(n, key, fmt::format("a string with a unit, e.g. \"1 {}\"", example));
+    try {
+      return parse(s);
+    } catch (const UnitError& e) {
+      fail_at(n.source(), key, e.what());
+    }
+  }
+
+  double length_nm(const toml::node& n, const std::string& key) const {
+    return quantity(n, key, parse_length_nm, "nm", "nm, um, µm, mm");
+  }
+  double length_um(const toml::node& n, const std::string& key) const {
+    return quantity(n, key, parse_length_um, "um", "nm, um, µm, mm");
+  }
+  double angle_deg(const toml::node& n, const std::string& key) const {
+    return quantity(n, key, parse_angle_deg, "deg", "deg, °, rad");
+  }
+  double angle_rad(const toml::node& n, const std::string& key) const {
+    return quantity(n, key, parse_angle_rad, "deg", "deg, °, rad");
+  }
+
+  /// A length in µm that must be > 0 (strict) or >= 0.
+  double length_um_checked(const toml::node& n, const std::string& key, bool strict,
+                           std::string_view example) const {
+    const double v = length_um(n, key);
+    if (strict ? !(v > 0) : !(v >= 0))
+      fail_value(n, key, fmt::format("{}; allowed: a length {} 0, e.g. \"{}\"", v < 0 ? "negative" : "zero",
+                                     strict ? ">" : ">=", example));
+    return v;
+  }
+
+  double facet_angle_deg(const toml::node& n, const std::string& key) const {
+    const double d = angle_deg(n, key);
+    if (!(d > 0 && d < 90))
+      fail_value(n, key, "out of range; allowed: 0 deg < facet angle < 90 deg (e.g. \"54.74 deg\")");
+    return d;
+  }
+
+  // --- materials -------------------------------------------------------------
+  MaterialRef material(const toml::node* n, const std::string& key, std::string_view fallback,
+                       const toml::table& parent);
+  MaterialRef material_from_text(const std::string& text, const std::string& key, const toml::node* n,
+                                 const toml::table& parent);
+
+  // --- sections -----------------------------------------------------------------
+  void read_wafer(const toml::table* t, Wafer& w);
+  Surface read_surface(const toml::table* t, const std::string& path, MaterialRef* rear_medium);
+  Texture read_texture(const toml::table& t, const std::string& path, TextureKind kind);
+  geometry::RandomPyramidsSpec read_random(const toml::table& t, const std::string& path);
+  void read_illumination(const toml::table* t, Illumination& ill, std::pair<double, double>& spectrum_range,
+                         std::string& spectrum_where, std::string& spectrum_shown);
+  std::vector<double> read_wavelengths(const toml::node& n, const std::string& key);
+  void read_run(const toml::table* t, RunSettings& run);
+  void check_coverage(const std::vector<double>& wl) const;
+};
+
+MaterialRef SceneReader::material(const toml::node* n, const std::string& key, std::string_view fallback,
+                                  const toml::table& parent) {
+  const std::string allowed =
+      "a material id (e.g. \"si_green2008\"), \"air\", a path to a `wavelength_nm,n,k` CSV file, or a "
+      "constant index { n = 1.5, k = 0 }";
+  if (!n) return material_from_text(std::string(fallback), key, nullptr, parent);
+  if (auto* t = n->as_table()) {
+    check_keys(*t, key, {"n", "k"});
+    const toml::node* nn = t->get("n");
+    if (!nn) fail_missing(*t, key + ".n", "the real part n > 0 of a constant index { n = 1.5, k = 0 }");
+    MaterialRef ref;
+    ref.constant = true;
+    ref.n = number(*nn, key + ".n", "a number > 0");
+    if (!(ref.n > 0)) fail_value(*nn, key + ".n", "not > 0; allowed: a real part n > 0");
+    if (const toml::node* kn = t->get("k")) {
+      ref.k = number(*kn, key + ".k", "a number >= 0");
+      if (!(ref.k >= 0)) fail_value(*kn, key + ".k", "negative; allowed: an extinction coefficient k >= 0");
+    }
+    return ref;
+  }
+  if (!n->is_string())
+    fail_value(*n, key, fmt::format("{} where a material was expected; allowed: {}", type_name(*n), allowed));
+  return material_from_text(n->as_string()->get(), key, n, parent);
+}
+
+MaterialRef SceneReader::material_from_text(const std::string& raw, const std::string& key,
+                                            const toml::node* n, const toml::table& parent) {
+  const std::string text = trimmed(raw);
+  MaterialRef ref;
+  Material m;
+  try {
+    m = find_material(text, dir_);
+  } catch (const std::exception& e) {
+    if (n) fail_value(*n, key, e.what());
+    fail_at(parent.source(), key, fmt::format("default material \"{}\": {}", text, e.what()));
+  }
+  std::error_code ec;
+  if (text == "air" || (is_plain_id(text) && fs::is_regular_file(materials_dir() / (text + ".csv"), ec))) {
+    ref.id_or_path = text;  // "air" (built-in n = 1, k = 0) or a shipped table: keep the id
+  } else {
+    fs::path p(text);
+    if (p.is_relative()) p = dir_ / p;
+    ref.id_or_path = fs::absolute(p, ec).lexically_normal().string();
+  }
+  uses_.push_back({key, n ? where(n->source()) : std::string(),
+                   n ? show(*n) : toml_quote(text) + " (default)", std::move(m)});
+  return ref;
+}
+
+void SceneReader::read_wafer(const toml::table* t, Wafer& w) {
+  static const toml::table empty;
+  const toml::table& tb = t ? *t : empty;
+  check_keys(tb, "wafer", {"material", "thickness", "thickness_convention"});
+  w.material = material(tb.get("material"), "wafer.material", "si_green2008", tb);
+  if (const toml::node* n = tb.get("thickness"))
+    w.thickness_um = length_um_checked(*n, "wafer.thickness", true, "180 um");
+  w.thickness_convention =
+      word_or(tb, "wafer", "thickness_convention", kConventionWords, ThicknessConvention::mean);
+}
+
+Texture SceneReader::read_texture(const toml::table& t, const std::string& path, TextureKind kind) {
+  Texture tex;
+  tex.kind = kind;
+  const bool regular = kind == TextureKind::upright_pyramids || kind == TextureKind::inverted_pyramids;
+  const std::string texture_is = fmt::format("(here texture = \"{}\")", word_of(kind, kTextureWords));
+
+  if (const toml::table* p = sub_table(t, path, "pyramids")) {
+    const std::string k = path + ".pyramids";
+    if (!regular)
+      fail_at(p->source(), k,
+              fmt::format("a [{}] table is allowed only with texture = \"upright_pyramids\" or "
+                          "\"inverted_pyramids\" {}",
+                          k, texture_is));
+    check_keys(*p, k, {"base", "gap", "facet_angle"});
+    if (const toml::node* n = p->get("base")) tex.base_um = length_um_checked(*n, k + ".base", true, "5 um");
+    if (const toml::node* n = p->get("gap")) tex.gap_um = length_um_checked(*n, k + ".gap", false, "0 um");
+    if (const toml::node* n = p->get("facet_angle")) tex.facet_deg = facet_angle_deg(*n, k + ".facet_angle");
+  }
+  if (const toml::table* r = sub_table(t, path, "random_pyramids")) {
+    const std::string k = path + ".random_pyramids";
+    if (kind != TextureKind::random_pyramids)
+      fail_at(r->source(), k,
+              fmt::format("a [{}] table is allowed only with texture = \"random_pyramids\" {}", k, texture_is));
+    tex.random = read_random(*r, k);
+  }
+  return tex;
+}
+
+geometry::RandomPyramidsSpec SceneReader::read_random(const toml::table& t, const std::string& path) {
+  using geometry::SizeDistribution;
+  geometry::RandomPyramidsSpec spec;
+  check_keys(t, path,
+             {"distribution", "size", "min", "max", "mean", "sd", "min_size", "facet_angle", "flat_fraction",
+              "tile", "seed"});
+  spec.distribution = word_or(t, path, "distribution", kDistributionWords, spec.distribution);
+  const std::string dist = fmt::format("distribution = \"{}\"", word_of(spec.distribution, kDistributionWords));
+
+  // Which size keys belong to which distribution.
+  struct SizeKey {
+    std::string_view name;
+    bool used;
+    bool required;
+  };
+  const bool fixed = spec.distribution == SizeDistribution::fixed;
+  const bool uniform = spec.distribution == SizeDistribution::uniform;
+  const bool gauss = !fixed && !uniform;
+  const std::vector<SizeKey> keys = {{"size", fixed, fixed},      {"min", uniform, false},
+                                     {"max", uniform, false},     {"mean", gauss, gauss},
+                                     {"sd", gauss, gauss}};
+  for (const SizeKey& sk : keys) {
+    const toml::node* n = t.get(sk.name);
+    const std::string k = child_key(path, sk.name);
+    if (n && !sk.used) {
+      const std::string_view owner = sk.name == "size" ? "\"fixed\""
+                                     : (sk.name == "min" || sk.name == "max") ? "\"uniform\""
+                                                                              : "\"normal\" or \"lognormal\"";
+      fail_value(*n, k, fmt::format("'{}' is allowed only with distribution = {} (here {})", sk.name, owner, dist));
+    }
+    if (!n && sk.required) fail_missing(t, k, fmt::format("a length with {}, e.g. \"3 um\"", dist));
+  }
+  if (fixed) {
+    spec.size_a_um = length_um_checked(*t.get("size"), path + ".size", true, "3 um");
+  } else if (uniform) {
+    if (const toml::node* n = t.get("min")) spec.size_a_um = length_um_checked(*n, path + ".min", true, "1 um");
+    if (const toml::node* n = t.get("max")) spec.size_b_um = length_um_checked(*n, path + ".max", true, "5 um");
+    if (!(spec.size_a_um < spec.size_b_um)) {
+      const toml::node* n = t.get("max") ? t.get("max") : t.get("min");
+      fail_value(*n, n == t.get("max") ? path + ".max" : path + ".min",
+                 fmt::format("min {} is not below max {}; allowed: min < max", format_length_um(spec.size_a_um),
+                             format_length_um(spec.size_b_um)));
+    }
+  } else {
+    spec.size_a_um = length_um_checked(*t.get("mean"), path + ".mean", true, "3 um");
+    spec.size_b_um = length_um_checked(*t.get("sd"), path + ".sd", false, "1 um");
+  }
+  if (const toml::node* n = t.get("min_size"))
+    spec.min_size_um = length_um_checked(*n, path + ".min_size", true, "0.2 um");
+  {
+    // Sizes below min_size are redrawn: the distribution must reach above it
+    // (the same conditions as geometry/pyramid_sizes.cpp, reported here with
+    // the file position).
+    const char* size_key = fixed ? "size" : uniform ? "max" : "mean";
+    const bool single_size = fixed || (gauss && spec.size_b_um == 0);  // every draw is size_a
+    bool ok = true;
+    double reach = spec.size_a_um;  // the largest size the distribution gives
+    if (single_size) {
+      ok = spec.size_a_um >= spec.min_size_um;
+    } else if (uniform) {
+      reach = spec.size_b_um;
+      ok = spec.size_b_um > spec.min_size_um;
+    }  // normal / lognormal with sd > 0 reach any size
+    if (!ok) {
+      const toml::node* n = t.get("min_size") ? t.get("min_size") : t.get(size_key);
+      const std::string what = fmt::format("min_size {} is above {} = {}, and sizes below min_size are redrawn; "
+                                           "allowed: min_size below {}",
+                                           format_length_um(spec.min_size_um), size_key, format_length_um(reach), size_key);
+      if (n) fail_value(*n, n == t.get("min_size") ? path + ".min_size" : child_key(path, size_key), what);
+      fail_at(t.source(), path + ".min_size", what);
+    }
+  }
+  if (const toml::node* n = t.get("facet_angle")) spec.facet_deg = facet_angle_deg(*n, path + ".facet_angle");
+  if (const toml::node* n = t.get("flat_fraction")) {
+    spec.flat_fraction = number(*n, path + ".flat_fraction", "a number in [0, 1)");
+    if (!(spec.flat_fraction >= 0 && spec.flat_fraction < 1))
+      fail_value(*n, path + ".flat_fraction", "out of range; allowed: 0 <= flat_fraction < 1");
+  }
+  if (const toml::node* n = t.get("seed"))
+    spec.seed = static_cast<std::uint64_t>(integer(*n, path + ".seed", 0, INT64_MAX, "an integer >= 0"));
+
+  const double mean_size = uniform ? 0.5 * (spec.size_a_um + spec.size_b_um) : spec.size_a_um;
+  const toml::node* tile = t.get("tile");
+  if (tile) spec.tile_um = length_um_checked(*tile, path + ".tile", true, "50 um");
+  if (spec.tile_um < kMinTileOverMeanSize * mean_size) {
+    const std::string what = fmt::format(
+        "tile {} is smaller than {} × the mean pyramid size {}; allowed: tile >= {}", format_length_um(spec.tile_um),
+        kMinTileOverMeanSize, format_length_um(mean_size), format_length_um(kMinTileOverMeanSize * mean_size));
+    if (tile) fail_value(*tile, path + ".tile", what);
+    fail_at(t.source(), path + ".tile", "default " + what + " (set 'tile')");
+  }
+  return spec;
+}
+
+Surface SceneReader::read_surface(const toml::table* t, const std::string& path, MaterialRef* rear_medium) {
+  static const toml::table empty;
+  const toml::table& tb = t ? *t : empty;
+  std::vector<std::string_view> allowed = {"texture",  "conformality",    "scattering", "diffuse_fraction",
+                                           "pyramids", "random_pyramids", "films",      "interface"};
+  if (rear_medium) allowed.push_back("medium");
+  check_keys(tb, path, allowed);
+
+  Surface s;
+  const TextureKind kind = word_or(tb, path, "texture", kTextureWords, TextureKind::planar);
+  s.texture = read_texture(tb, path, kind);
+  s.conformality = word_or(tb, path, "conformality", kConformalityWords, Conformality::conformal);
+  s.scattering = word_or(tb, path, "scattering", kScatteringWords, SurfaceScattering::specular);
+  s.interface_model = word_or(tb, path, "interface", kInterfaceWords, InterfaceModel::films);
+
+  const std::string df_key = path + ".diffuse_fraction";
+  const toml::node* df = tb.get("diffuse_fraction");
+  if (s.scattering == SurfaceScattering::mixed) {
+    if (!df) fail_missing(tb, df_key, "a number in [0, 1] with scattering = \"mixed\"");
+    s.diffuse_fraction = number(*df, df_key, "a number in [0, 1]");
+    if (!(s.diffuse_fraction >= 0 && s.diffuse_fraction <= 1))
+      fail_value(*df, df_key, "out of range; allowed: a number in [0, 1]");
+  } else if (df) {
+    fail_value(*df, df_key,
+               fmt::format("allowed only with scattering = \"mixed\" (here scattering = \"{}\")",
+                           word_of(s.scattering, kScatteringWords)));
+  }
+
+  if (const toml::node* fn = tb.get("films")) {
+    const std::string fk = path + ".films";
+    const toml::array* arr = fn->as_array();
+    if (!arr)
+      fail_value(*fn, fk,
+                 fmt::format("{} where an array of tables was expected; allowed: [[{}]] tables with material "
+                             "and thickness",
+                             type_name(*fn), fk));
+    for (std::size_t i = 0; i < arr->size(); ++i) {
+      const toml::node& e = *arr->get(i);
+      const std::string ek = fmt::format("{}[{}]", fk, i);
+      const toml::table* ft = e.as_table();
+      if (!ft)
+        fail_value(e, ek, fmt::format("{} where a table was expected; allowed: {{ material = ..., thickness = ... }}",
+                                      type_name(e)));
+      check_keys(*ft, ek, {"material", "thickness"});
+      Film film;
+      const toml::node* m = ft->get("material");
+      if (!m) fail_missing(*ft, ek + ".material", "the film's material, e.g. \"sinx_pecvd_n209\"");
+      film.material = material(m, ek + ".material", "", *ft);
+      const toml::node* th = ft->get("thickness");
+      if (!th) fail_missing(*ft, ek + ".thickness", "the film's thickness as deposited on a planar wafer, e.g. \"75 nm\"");
+      film.thickness_nm = length_nm(*th, ek + ".thickness");
+      if (!(film.thickness_nm >= 0))
+        fail_value(*th, ek + ".thickness", "negative; allowed: a thickness >= 0, e.g. \"75 nm\"");
+      s.films.push_back(std::move(film));
+    }
+  }
+  if (rear_medium) {
+    const toml::node* mn = tb.get("medium");
+    if (mn && mn->is_string() && mn->as_string()->get() == "perfect_mirror") {
+      // R = 1 at every angle; films in front of it would never be reached by
+      // a consistent model, so they are refused.
+      if (!s.films.empty())
+        fail_value(*mn, path + ".medium",
+                   "cannot have films in front of it; allowed: \"perfect_mirror\" without [[rear.films]], or a "
+                   "material");
+      if (s.interface_model == InterfaceModel::ideal)
+        fail_value(*mn, path + ".medium", "a perfect mirror has no ideal interface; allowed: interface = \"films\"");
+      rear_mirror_ = true;
+      *rear_medium = material(nullptr, path + ".medium", "air", tb);
+    } else {
+      *rear_medium = material(mn, path + ".medium", "air", tb);
+    }
+  }
+  return s;
+}
+
+std::vector<double> SceneReader::read_wavelengths(const toml::node& n, const std::string& key) {
+  const auto positive = [&](const toml::node& e, const std::string& k) {
+    const double v = length_nm(e, k);
+    if (!(v > 0)) fail_value(e, k, "not > 0; allowed: a wavelength > 0, e.g. \"600 nm\"");
+    return v;
+  };
+  std::vector<double> wl;
+  if (n.is_string()) {
+    wl.push_back(positive(n, key));
+  } else if (auto* a = n.as_array()) {
+    if (a->empty()) fail_value(n, key, "empty; allowed: at least one wavelength, e.g. [\"600 nm\", \"900 nm\"]");
+    if (a->size() > kMaxWavelengths)
+      fail_value(n, key, fmt::format("{} wavelengths; allowed: at most {}", a->size(), kMaxWavelengths));
+    for (std::size_t i = 0; i < a->size(); ++i) {
+      const toml::node& e = *a->get(i);
+      const std::string k = fmt::format("{}[{}]", key, i);
+      const double v = positive(e, k);
+      if (!wl.empty() && !(v > wl.back()))
+        fail_value(e, k,
+                   fmt::format("not greater than the previous wavelength {}; allowed: strictly increasing "
+                               "wavelengths",
+                               show(*a->get(i - 1))));
+      wl.push_back(v);
+    }
+  } else if (auto* t = n.as_table()) {
+    check_keys(*t, key, {"from", "to", "step"});
+    for (std::string_view req : {"from", "to", "step"})
+      if (!t->get(req))
+        fail_missing(*t, child_key(key, req), "from, to and step, e.g. { from = \"300 nm\", to = \"1200 nm\", step = \"10 nm\" }");
+    const toml::node &nf = *t->get("from"), &nt = *t->get("to"), &ns = *t->get("step");
+    const double from = positive(nf, key + ".from"), to = positive(nt, key + ".to"),
+                 step = positive(ns, key + ".step");
+    if (!(to > from))
+      fail_value(nt, key + ".to",
+                 fmt::format("not greater than from = {}; allowed: to > from (a single wavelength is written "
+                             "as one string, e.g. \"1000 nm\")",
+                             show(nf)));
+    const double steps = (to - from) / step;
+    if (steps + 1 > static_cast<double>(kMaxWavelengths))
+      fail_value(ns, key + ".step",
+                 fmt::format("gives {:.0f} wavelengths; allowed: at most {}", steps + 1, kMaxWavelengths));
+    const double whole = std::round(steps);
+    if (std::abs(steps - whole) > kStepTolerance)
+      fail_value(ns, key + ".step",
+                 fmt::format("(to - from)/step = {} is not a whole number; allowed: a step that divides "
+                             "to - from = {} nm",
+                             format_number(steps), format_number(to - from)));
+    const auto count = static_cast<std::size_t>(whole);
+    for (std::size_t i = 0; i < count; ++i) wl.push_back(from + static_cast<double>(i) * step);
+    wl.push_back(to);  // exactly `to`, whatever the rounding of from + count·step
+  } else {
+    fail_value(n, key,
+               fmt::format("{} where wavelengths were expected; allowed: \"1000 nm\", [\"600 nm\", \"900 nm\"] or "
+                           "{{ from = \"300 nm\", to = \"1200 nm\", step = \"10 nm\" }}",
+                           type_name(n)));
+  }
+  return wl;
+}
+
+void SceneReader::read_illumination(const toml::table* t, Illumination& ill,
+                                    std::pair<double, double>& spectrum_range, std::string& spectrum_where,
+                                    std::string& spectrum_shown) {
+  static const toml::table empty;
+  const toml::table& tb = t ? *t : empty;
+  check_keys(tb, "illumination", {"spectrum", "kind", "polar_angle", "azimuth", "polarization", "wavelengths"});
+
+  // Spectrum: a built-in name or a file.
+  Spectrum spec;
+  if (const toml::node* n = tb.get("spectrum")) {
+    const std::string allowed =
+        "\"AM1.5G\", \"AM1.5D\", \"AM0\" (ASTM G173-03) or a path to a `wavelength_nm,irradiance_W_m2_nm` CSV file";
+    const std::string text = trimmed(string_value(*n, "illumination.spectrum", allowed));
+    spectrum_where = where(n->source());
+    spectrum_shown = show(*n);
+    bool builtin = false;
+    for (const auto& [w, v] : kSpectrumWords)
+      if (upper(text) == w) {
+        ill.spectrum = v;
+        builtin = true;
+      }
+    try {
+      if (builtin) {
+        spec = builtin_spectrum(std::string(word_of(ill.spectrum, kSpectrumWords)));
+      } else {
+        fs::path p(text);
+        if (p.is_relative()) p = dir_ / p;
+        std::error_code ec;
+        p = fs::absolute(p, ec).lexically_normal();
+        if (text.empty() || !fs::is_regular_file(p, ec))
+          fail_value(*n, "illumination.spectrum",
+                     fmt::format("not a built-in spectrum and no file {}; allowed: {}", p.string(), allowed));
+        ill.spectrum = SpectrumKind::file;
+        ill.spectrum_file = p;
+        spec = load_spectrum_file(p);
+      }
+    } catch (const SceneError&) {
+      throw;
+    } catch (const std::exception& e) {
+      fail_value(*n, "illumination.spectrum", e.what());
+    }
+  } else {
+    spectrum_where = where(tb.source());
+    spectrum_shown = "\"AM1.5G\" (default)";
+    try {
+      spec = builtin_spectrum("AM1.5G");
+    } catch (const std::exception& e) {
+      fail_at(tb.source(), "illumination.spectrum", fmt::format("default \"AM1.5G\": {}", e.what()));
+    }
+  }
+  spectrum_range = {spec.wavelength_nm.front(), spec.wavelength_nm.back()};
+
+  ill.kind = word_or(tb, "illumination", "kind", kIlluminationWords, IlluminationKind::collimated);
+  for (std::string_view k : {"polar_angle", "azimuth"}) {
+    const toml::node* n = tb.get(k);
+    if (n && ill.kind != IlluminationKind::collimated)
+      fail_value(*n, child_key("illumination", k),
+                 "allowed only with kind = \"collimated\" (here kind = \"diffuse\": light from the whole "
+                 "hemisphere has no direction)");
+  }
+  if (const toml::node* n = tb.get("polar_angle")) {
+    ill.polar_rad = angle_rad(*n, "illumination.polar_angle");
+    const double deg = angle_deg(*n, "illumination.polar_angle");  // "90 deg" is out whatever the rounding
+    if (!(ill.polar_rad >= 0 && ill.polar_rad < kTwoPi / 4 && deg < 90))
+      fail_value(*n, "illumination.polar_angle",
+                 "out of range; allowed: 0 deg <= polar angle < 90 deg (from the wafer normal)");
+  }
+  if (const toml::node* n = tb.get("azimuth")) {
+    // Reduced to [0, 2π). Values already inside are kept bit for bit (so a
+    // resolved file reads back exactly); others are reduced in degrees, so
+    // that "-30 deg" becomes exactly what "330 deg" gives.
+    double a = angle_rad(*n, "illumination.azimuth");
+    if (!(a >= 0 && a < kTwoPi)) {
+      double deg = std::fmod(angle_deg(*n, "illumination.azimuth"), 360.0);
+      if (deg < 0) deg += 360.0;
+      a = deg * (kTwoPi / 2) / 180;  // the same arithmetic as parse_angle_rad("... deg")
+      if (!(a < kTwoPi)) a = 0;      // -tiny + 360 rounds up to 360
+    }
+    ill.azimuth_rad = a;
+  }
+  ill.polarization = word_or(tb, "illumination", "polarization", kPolarizationWords, PolarizationKind::unpolarized);
+
+  if (const toml::node* n = tb.get("wavelengths")) {
+    ill.wavelengths_nm = read_wavelengths(*n, "illumination.wavelengths");
+    wavelengths_where_ = where(n->source());
+  } else {
+    for (int w = 300; w <= 1200; w += 10) ill.wavelengths_nm.push_back(w);
+    wavelengths_where_ = where(tb.source());
+  }
+}
+
+void SceneReader::read_run(const toml::table* t, RunSettings& run) {
+  static const toml::table empty;
+  const toml::table& tb = t ? *t : empty;
+  check_keys(tb, "run",
+             {"photons", "seed", "max_bounces", "randomize_lateral", "threads", "depth_histograms", "target_jg_error"});
+  if (const toml::node* n = tb.get("photons"))
+    run.photons = static_cast<std::uint64_t>(integer(*n, "run.photons", 1, INT64_MAX, "an integer >= 1 (per wavelength)"));
+  if (const toml::node* n = tb.get("seed"))
+    run.seed = static_cast<std::uint64_t>(integer(*n, "run.seed", 0, INT64_MAX, "an integer >= 0"));
+  if (const toml::node* n = tb.get("max_bounces"))
+    run.max_bounces = static_cast<int>(integer(*n, "run.max_bounces", 1, INT_MAX, fmt::format("an integer in [1, {}]", INT_MAX)));
+  if (const toml::node* n = tb.get("randomize_lateral")) run.randomize_lateral = boolean(*n, "run.randomize_lateral");
+  if (const toml::node* n = tb.get("threads"))
+    run.threads = static_cast<int>(
+        integer(*n, "run.threads", 0, INT_MAX, fmt::format("an integer in [0, {}] (0 = all cores)", INT_MAX)));
+  if (const toml::node* n = tb.get("depth_histograms")) run.depth_histograms = boolean(*n, "run.depth_histograms");
+  if (const toml::node* n = tb.get("target_jg_error")) {
+    run.target_jg_error =
+        quantity(*n, "run.target_jg_error", parse_current_mA_cm2, "mA/cm2", "mA/cm2, mA/cm^2, mA/cm², A/m2, A/m^2, A/m²");
+    if (!(run.target_jg_error > 0))
+      fail_value(*n, "run.target_jg_error", "not > 0; allowed: a current density > 0, e.g. \"0.02 mA/cm2\"");
+  }
+}
+
+void SceneReader::check_coverage(const std::vector<double>& wl) const {
+  for (const MaterialUse& u : uses_) {
+    const double lo = u.material.min_wavelength_nm(), hi = u.material.max_wavelength_nm();
+    for (double w : wl) {
+      if (w >= lo && w <= hi) continue;
+      throw SceneError(fmt::format(
+          "{}: key '{}': value {}: material '{}' covers {}–{} nm, but the run wavelength {} "
+          "(illumination.wavelengths{}) lies outside; allowed: a material covering every run wavelength, "
+          "or run wavelengths inside {}–{} nm",
+          u.where.empty() ? wavelengths_where_ : u.where, u.key, u.shown, u.material.name, format_number(lo),
+          format_number(hi), format_length_nm(w), u.where.empty() ? "" : ", " + wavelengths_where_,
+          format_number(lo), format_number(hi)));
+    }
+  }
+}
+
+Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ignored) {
+  if (!ignored.count("sweep"))
+    if (const toml::node* n = root.get("sweep"))
+      fail_at(n->source(), "sweep",
+              "a [sweep] table describes a parameter sweep; run this file with the sweep command, not as a "
+              "single scene (or remove [sweep])");
+  check_keys(root, "", {"scene", "ambient", "wafer", "front", "rear", "illumination", "run"}, ignored);
+
+  Scene s;
+  s.file = file_;
+  s.name = file_.stem().string();
+  if (const toml::table* t = sub_table(root, "", "scene")) {
+    check_keys(*t, "scene", {"name"});
+    if (const toml::node* n = t->get("name")) {
+      s.name = string_value(*n, "scene.name", "a non-empty string");
+      if (trimmed(s.name).empty()) fail_value(*n, "scene.name", "empty; allowed: a non-empty string");
+    }
+  }
+
+  {
+    static const toml::table empty;
+    const toml::table* t = sub_table(root, "", "ambient");
+    const toml::table& tb = t ? *t : empty;
+    check_keys(tb, "ambient", {"material"});
+    s.ambient = material(tb.get("material"), "ambient.material", "air", tb);
+  }
+  read_wafer(sub_table(root, "", "wafer"), s.wafer);
+  s.front = read_surface(sub_table(root, "", "front"), "front", nullptr);
+  s.rear = read_surface(sub_table(root, "", "rear"), "rear", &s.rear_medium);
+  s.rear_perfect_mirror = rear_mirror_;
+
+  std::pair<double, double> spectrum_range;
+  std::string spectrum_where, spectrum_shown;
+  read_illumination(sub_table(root, "", "illumination"), s.illumination, spectrum_range, spectrum_where,
+                    spectrum_shown);
+  read_run(sub_table(root, "", "run"), s.run);
+
+  const std::vector<double>& wl = s.illumination.wavelengths_nm;
+  for (double w : wl)
+    if (w < spectrum_range.first || w > spectrum_range.second)
+      throw SceneError(fmt::format(
+          "{}: key 'illumination.spectrum': value {}: the spectrum covers {}–{} nm, but the run wavelength {} "
+          "(illumination.wavelengths, {}) lies outside; allowed: run wavelengths inside {}–{} nm",
+          spectrum_where, spectrum_shown, format_number(spectrum_range.first), format_number(spectrum_range.second),
+          format_length_nm(w), wavelengths_where_, format_number(spectrum_range.first),
+          format_number(spectrum_range.second)));
+  check_coverage(wl);
+  return s;
+}
+
+// ---------------------------------------------------------------------------
+// Writing.
+
+std::string material_toml(const MaterialRef& m) {
+  if (m.constant) return fmt::format("{{ n = {}, k = {} }}", show_float(m.n), show_float(m.k));
+  return toml_quote(m.id_or_path);
+}
+
+/// The shortest wavelength text that reads back as `wl`: a range table when
+/// from/to/step regenerates the values exactly, else an array.
+std::string wavelengths_toml(const std::vector<double>& wl) {
+  if (wl.size() == 1) return toml_quote(format_length_nm(wl[0]));
+  if (wl.size() >= 2) {
+    const double from = wl.front(), to = wl.back();
+    const double intervals = static_cast<double>(wl.size() - 1);
+    for (double step : {(to - from) / intervals, wl[1] - wl[0]}) {
+      if (!(step > 0)) continue;
+      const double steps = (to - from) / step;
+      if (std::abs(steps - std::round(steps)) > kStepTolerance || std::round(steps) != intervals) continue;
+      bool same = true;
+      for (std::size_t i = 0; i + 1 < wl.size() && same; ++i)
+        same = from + static_cast<double>(i) * step == wl[i];
+      if (same)
+        return fmt::format("{{ from = {}, to = {}, step = {} }}", toml_quote(format_length_nm(from)),
+                           toml_quote(format_length_nm(to)), toml_quote(format_length_nm(step)));
+    }
+  }
+  std::string s = "[";
+  for (std::size_t i = 0; i < wl.size(); ++i) {
+    s += (i % 8 == 0) ? "\n  " : " ";
+    s += toml_quote(format_length_nm(wl[i])) + ",";
+  }
+  return s + "\n]";
+}
+
+void write_surface(std::string& out, const Surface& s, const std::string& name, const MaterialRef* medium,
+                   bool perfect_mirror = false) {
+  out += fmt::format("\n[{}]\n", name);
+  out += fmt::format("texture = \"{}\"\n", word_of(s.texture.kind, kTextureWords));
+  out += fmt::format("conformality = \"{}\"\n", word_of(s.conformality, kConformalityWords));
+  out += fmt::format("scattering = \"{}\"\n", word_of(s.scattering, kScatteringWords));
+  out += fmt::format("interface = \"{}\"\n", word_of(s.interface_model, kInterfaceWords));
+  if (s.scattering == SurfaceScattering::mixed)
+    out += fmt::format("diffuse_fraction = {}\n", show_float(s.diffuse_fraction));
+  if (medium) out += fmt::format("medium = {}\n", perfect_mirror ? "\"perfect_mirror\"" : material_toml(*medium));
+
+  const Texture& t = s.texture;
+  if (t.kind == TextureKind::upright_pyramids || t.kind == TextureKind::inverted_pyramids) {
+    out += fmt::format("\n[{}.pyramids]\n", name);
+    out += fmt::format("base = {}\n", toml_quote(format_length_um(t.base_um)));
+    out += fmt::format("gap = {}\n", toml_quote(format_length_um(t.gap_um)));
+    out += fmt::format("facet_angle = {}\n", toml_quote(format_angle_deg(t.facet_deg)));
+  } else if (t.kind == TextureKind::random_pyramids) {
+    using geometry::SizeDistribution;
+    const geometry::RandomPyramidsSpec& r = t.random;
+    const auto len = [](double um) { return toml_quote(format_length_um(um)); };
+    out += fmt::format("\n[{}.random_pyramids]\n", name);
+    out += fmt::format("distribution = \"{}\"\n", word_of(r.distribution, kDistributionWords));
+    switch (r.distribution) {
+      case SizeDistribution::fixed: out += fmt::format("size = {}\n", len(r.size_a_um)); break;
+      case SizeDistribution::uniform:
+        out += fmt::format("min = {}\nmax = {}\n", len(r.size_a_um), len(r.size_b_um));
+        break;
+      case SizeDistribution::normal:
+      case SizeDistribution::lognormal:
+        out += fmt::format("mean = {}\nsd = {}\n", len(r.size_a_um), len(r.size_b_um));
+        break;
+    }
+    out += fmt::format("min_size = {}\n", len(r.min_size_um));
+    out += fmt::format("facet_angle = {}\n", toml_quote(format_angle_deg(r.facet_deg)));
+    out += fmt::format("flat_fraction = {}\n", show_float(r.flat_fraction));
+    out += fmt::format("tile = {}\n", len(r.tile_um));
+    out += fmt::format("seed = {}\n", r.seed);
+  }
+  for (const Film& f : s.films) {
+    out += fmt::format("\n[[{}.films]]\n", name);
+    out += fmt::format("material = {}\n", material_toml(f.material));
+    out += fmt::format("thickness = {}\n", toml_quote(format_length_nm(f.thickness_nm)));
+  }
+}
+
+}  // namespace
+
+toml::table read_scene_table(const fs::path& file) {
+  std::error_code ec;
+  if (!fs::is_regular_file(file, ec))
+    throw SceneError(fmt::format("{}: cannot read the scene file: {}", file.string(),
+                                 fs::exists(file, ec) ? "not a regular file" : "no such file"));
+  try {
+    return toml::parse_file(file.string());
+  } catch (const toml::parse_error& e) {
+    const auto& b = e.source().begin;
+    throw SceneError(fmt::format("{}:{}:{}: TOML syntax error: {}", file.string(), b.line, b.column,
+                                 e.description()));
+  }
+}
+
+Scene scene_from_table(const toml::table& t, const fs::path& file, const std::set<std::string>& ignored_top_level) {
+  return SceneReader(file).read(t, ignored_top_level);
+}
+
+Scene parse_scene_file(const fs::path& file) { return scene_from_table(read_scene_table(file), file); }
+
+std::string resolved_scene_toml(const Scene& s) {
+  std::string out;
+  out += "# Resolved scene: every value explicit, with units; material and spectrum paths absolute.\n";
+  if (!s.file.empty()) out += fmt::format("# Read from {}\n", s.file.string());
+  out += fmt::format("\n[scene]\nname = {}\n", toml_quote(s.name));
+  out += fmt::format("\n[ambient]\nmaterial = {}\n", material_toml(s.ambient));
+  out += fmt::format("\n[wafer]\nmaterial = {}\nthickness = {}\nthickness_convention = \"{}\"\n",
+                     material_toml(s.wafer.material), toml_quote(format_length_um(s.wafer.thickness_um)),
+                     word_of(s.wafer.thickness_convention, kConventionWords));
+  write_surface(out, s.front, "front", nullptr);
+  write_surface(out, s.rear, "rear", &s.rear_medium, s.rear_perfect_mirror);
+
+  const Illumination& ill = s.illumination;
+  out += "\n[illumination]\n";
+  out += fmt::format("spectrum = {}\n", ill.spectrum == SpectrumKind::file
+                                            ? toml_quote(ill.spectrum_file.string())
+                                            : "\"" + std::string(word_of(ill.spectrum, kSpectrumWords)) + "\"");
+  out += fmt::format("kind = \"{}\"\n", word_of(ill.kind, kIlluminationWords));
+  if (ill.kind == IlluminationKind::collimated) {
+    out += fmt::format("polar_angle = {}\n", toml_quote(format_angle_rad(ill.polar_rad)));
+    out += fmt::format("azimuth = {}\n", toml_quote(format_angle_rad(ill.azimuth_rad)));
+  }
+  out += fmt::format("polarization = \"{}\"\n", word_of(ill.polarization, kPolarizationWords));
+  out += fmt::format("wavelengths = {}\n", wavelengths_toml(ill.wavelengths_nm));
+
+  const RunSettings& r = s.run;
+  out += "\n[run]\n";
+  out += fmt::format("photons = {}\nseed = {}\nmax_bounces = {}\n", r.photons, r.seed, r.max_bounces);
+  out += fmt::format("randomize_lateral = {}\nthreads = {}\ndepth_histograms = {}\n", r.randomize_lateral,
+                     r.threads, r.depth_histograms);
+  if (r.target_jg_error > 0)
+    out += fmt::format("target_jg_error = {}\n", toml_quote(format_current_mA_cm2(r.target_jg_error)));
+  else
+    out += "# target_jg_error not set: runs exactly `photons` per wavelength\n";
+  return out;
+}
+
+}  // namespace lumtrap

@@ -1,0 +1,314 @@
+// Optical constants: CSV tables of n(λ), k(λ), constant indices, and the
+// lookup of a material by id or path. See material.hpp.
+#include "optics/material.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <charconv>
+#include <cmath>
+#include <cstdlib>
+#include <fstream>
+#include <limits>
+#include <string_view>
+#include <system_error>
+
+namespace lumtrap {
+
+namespace {
+
+constexpr std::string_view kSpectrumTableId = "astm_g173_03";  // not an n,k table
+constexpr std::string_view kAirId = "air";
+
+std::string_view trim(std::string_view s) {
+  const auto blank = [](char c) { return c == ' ' || c == '\t' || c == '\r' || c == '\n'; };
+  while (!s.empty() && blank(s.front())) s.remove_prefix(1);
+  while (!s.empty() && blank(s.back())) s.remove_suffix(1);
+  return s;
+}
+
+std::vector<std::string_view> split_cells(std::string_view line) {
+  std::vector<std::string_view> cells;
+  std::size_t start = 0;
+  while (true) {
+    const std::size_t comma = line.find(',', start);
+    if (comma == std::string_view::npos) {
+      cells.push_back(trim(line.substr(start)));
+      return cells;
+    }
+    cells.push_back(trim(line.substr(start, comma - start)));
+    start = comma + 1;
+  }
+}
+
+std::string join(const std::vector<std::string>& parts, std::string_view sep) {
+  std::string out;
+  for (std::size_t i = 0; i < parts.size(); ++i) {
+    if (i) out += sep;
+    out += parts[i];
+  }
+  return out;
+}
+
+/// Parses the whole cell as a finite double (a leading '+' is accepted);
+/// false for anything else, including "nan" and "inf".
+bool parse_number(std::string_view cell, double& value) {
+  if (!cell.empty() && cell.front() == '+') cell.remove_prefix(1);
+  if (cell.empty()) return false;
+  const char* first = cell.data();
+  const char* last = cell.data() + cell.size();
+  const auto [ptr, ec] = std::from_chars(first, last, value);
+  return ec == std::errc() && ptr == last && std::isfinite(value);
+}
+
+[[noreturn]] void fail(const std::filesystem::path& file, int line, const std::string& what) {
+  throw std::runtime_error(fmt::format("{}:{}: {}", file.string(), line, what));
+}
+
+}  // namespace
+
+// ---------------------------------------------------------------------------
+// CSV reading (shared with spectrum files)
+
+NumericTable read_numeric_csv(const std::filesystem::path& file,
+                              const std::vector<std::string>& header) {
+  const std::string columns_text = join(header, ",");
+  std::ifstream in(file, std::ios::binary);
+  if (!in) {
+    throw std::runtime_error(fmt::format(
+        "{}: cannot open the file (expected a `{}` CSV table)", file.string(), columns_text));
+  }
+
+  NumericTable table;
+  table.columns.assign(header.size(), {});
+  bool seen_non_comment = false;
+  int line_no = 0;
+  std::string raw;
+  while (std::getline(in, raw)) {
+    ++line_no;
+    std::string_view line = raw;
+    if (line_no == 1 && line.substr(0, 3) == "\xEF\xBB\xBF") line.remove_prefix(3);  // UTF-8 BOM
+    line = trim(line);
+    if (line.empty()) continue;
+    if (line.front() == '#') {
+      if (table.source.empty()) {
+        std::string_view body = trim(line.substr(1));
+        constexpr std::string_view tag = "source:";
+        if (body.substr(0, tag.size()) == tag) table.source = std::string(trim(body.substr(tag.size())));
+      }
+      continue;
+    }
+
+    const std::vector<std::string_view> cells = split_cells(line);
+    const bool first_non_comment = !seen_non_comment;
+    seen_non_comment = true;
+    if (first_non_comment && cells.size() == header.size() &&
+        std::equal(cells.begin(), cells.end(), header.begin())) {
+      continue;  // the optional header line
+    }
+
+    if (cells.size() != header.size()) {
+      fail(file, line_no,
+           fmt::format("expected {} columns `{}`, found {} in \"{}\"", header.size(), columns_text,
+                       cells.size(), line));
+    }
+    std::vector<double> row(header.size());
+    for (std::size_t c = 0; c < cells.size(); ++c) {
+      if (!parse_number(cells[c], row[c])) {
+        fail(file, line_no,
+             fmt::format("{} cell \"{}\" is not a finite number; a data row is {} numbers `{}`{}",
+                         header[c], cells[c], header.size(), columns_text,
+                         first_non_comment
+                             ? fmt::format(" (a header line must read exactly `{}`)", columns_text)
+                             : std::string()));
+      }
+    }
+    if (!(row[0] > 0.0)) {
+      fail(file, line_no,
+           fmt::format("{} = {} must be > 0", header[0], cells[0]));
+    }
+    for (std::size_t c = 1; c < row.size(); ++c) {
+      if (row[c] < 0.0) {
+        fail(file, line_no, fmt::format("{} = {} is negative; {} must be >= 0", header[c], cells[c], header[c]));
+      }
+    }
+    if (!table.line_of_row.empty()) {
+      const double previous = table.columns[0].back();
+      const int previous_line = table.line_of_row.back();
+      if (row[0] == previous) {
+        fail(file, line_no,
+             fmt::format("duplicate {} {} (also on line {}); wavelengths must strictly increase",
+                         header[0], cells[0], previous_line));
+      }
+      if (row[0] < previous) {
+        fail(file, line_no,
+             fmt::format("{} {} is smaller than {} on line {}; wavelengths must strictly increase",
+                         header[0], cells[0], previous, previous_line));
+      }
+    }
+    for (std::size_t c = 0; c < row.size(); ++c) table.columns[c].push_back(row[c]);
+    table.line_of_row.push_back(line_no);
+  }
+  if (in.bad()) {
+    throw std::runtime_error(fmt::format("{}: read error", file.string()));
+  }
+  if (table.line_of_row.empty()) {
+    fail(file, std::max(line_no, 1),
+         line_no == 0 ? fmt::format("the file is empty; expected `{}` data rows", columns_text)
+                      : fmt::format("no data rows (end of file; only comments, blank lines or "
+                                    "the header before); expected `{}` data rows",
+                                    columns_text));
+  }
+  return table;
+}
+
+// ---------------------------------------------------------------------------
+// Material
+
+cplx Material::index_at(double wl) const {
+  if (constant) return {n.front(), k.front()};
+  const double lo = wavelength_nm.front(), hi = wavelength_nm.back();
+  if (!(wl >= lo && wl <= hi)) {  // also rejects NaN
+    const std::string where = (!file.empty() && file != name) ? fmt::format(" ({})", file) : "";
+    throw MaterialError(fmt::format("material '{}'{} covers {:g}–{:g} nm; {:g} nm requested", name,
+                                    where, lo, hi, wl));
+  }
+  // Last grid point <= wl.
+  const auto it = std::upper_bound(wavelength_nm.begin(), wavelength_nm.end(), wl);
+  const std::size_t i = static_cast<std::size_t>(it - wavelength_nm.begin()) - 1;
+  if (wavelength_nm[i] == wl) return {n[i], k[i]};  // exact at grid points
+  const double t = (wl - wavelength_nm[i]) / (wavelength_nm[i + 1] - wavelength_nm[i]);
+  return {n[i] + t * (n[i + 1] - n[i]), k[i] + t * (k[i + 1] - k[i])};
+}
+
+double Material::min_wavelength_nm() const {
+  return constant ? -std::numeric_limits<double>::infinity() : wavelength_nm.front();
+}
+
+double Material::max_wavelength_nm() const {
+  return constant ? std::numeric_limits<double>::infinity() : wavelength_nm.back();
+}
+
+Material load_material_file(const std::filesystem::path& file) {
+  NumericTable t;
+  try {
+    t = read_numeric_csv(file, {"wavelength_nm", "n", "k"});
+  } catch (const std::runtime_error& e) {
+    throw MaterialError(e.what());
+  }
+  for (std::size_t r = 0; r < t.line_of_row.size(); ++r) {
+    if (!(t.columns[1][r] > 0.0)) {
+      throw MaterialError(fmt::format("{}:{}: n = {:g}; the real part n must be > 0",
+                                      file.string(), t.line_of_row[r], t.columns[1][r]));
+    }
+  }
+  Material m;
+  m.name = file.stem().string();
+  m.source = t.source;
+  m.file = file.string();
+  m.wavelength_nm = std::move(t.columns[0]);
+  m.n = std::move(t.columns[1]);
+  m.k = std::move(t.columns[2]);
+  return m;
+}
+
+Material constant_material(double n, double k) {
+  if (!(std::isfinite(n) && n > 0.0) || !(std::isfinite(k) && k >= 0.0)) {
+    throw MaterialError(fmt::format(
+        "constant index n = {:g}, k = {:g} is not allowed; n must be > 0 and k >= 0", n, k));
+  }
+  Material m;
+  m.name = fmt::format("n={:g},k={:g}", n, k);
+  m.source = "constant";
+  m.wavelength_nm = {0.0};
+  m.n = {n};
+  m.k = {k};
+  m.constant = true;
+  return m;
+}
+
+std::filesystem::path materials_dir() {
+  if (const char* env = std::getenv("LUMTRAP_MATERIALS"); env != nullptr && *env != '\0') {
+    return std::filesystem::path(env);
+  }
+#ifdef LUMTRAP_MATERIALS_DIR
+  return std::filesystem::path(LUMTRAP_MATERIALS_DIR);
+#else
+  return std::filesystem::path("materials");
+#endif
+}
+
+std::vector<std::string> shipped_material_ids() {
+  std::vector<std::string> ids;
+  std::error_code ec;
+  const std::filesystem::path dir = materials_dir();
+  for (std::filesystem::directory_iterator it(dir, ec), end; !ec && it != end; it.increment(ec)) {
+    const std::filesystem::path& p = it->path();
+    if (p.extension() != ".csv" || !it->is_regular_file(ec)) continue;
+    std::string stem = p.stem().string();
+    if (stem == kSpectrumTableId) continue;
+    ids.push_back(std::move(stem));
+  }
+  std::sort(ids.begin(), ids.end());
+  return ids;
+}
+
+Material find_material(const std::string& id_or_path, const std::filesystem::path& relative_to) {
+  const std::string ref(trim(id_or_path));
+  if (ref == kAirId) {
+    Material air = constant_material(1.0, 0.0);
+    air.name = std::string(kAirId);
+    air.source = "built-in constant n = 1, k = 0";
+    return air;
+  }
+
+  const std::filesystem::path dir = materials_dir();
+  const auto is_id = [](const std::string& s) {
+    return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) {
+      return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
+             c == '_' || c == '-';
+    });
+  };
+  if (ref == kSpectrumTableId) {
+    throw MaterialError(fmt::format(
+        "'{}' is the solar spectrum table, not an optical-constants (n, k) material", ref));
+  }
+  std::error_code ec;
+  if (is_id(ref)) {
+    const std::filesystem::path shipped = dir / (ref + ".csv");
+    if (std::filesystem::is_regular_file(shipped, ec)) {
+      Material m = load_material_file(shipped);
+      m.name = ref;
+      return m;
+    }
+  }
+
+  if (!ref.empty()) {
+    std::filesystem::path p(ref);
+    if (p.is_relative() && !relative_to.empty()) p = relative_to / p;
+    if (std::filesystem::is_regular_file(p, ec)) {
+      Material m = load_material_file(p);
+      m.name = ref;
+      return m;
+    }
+  }
+
+  std::vector<std::string> known = shipped_material_ids();
+  known.insert(known.begin(), std::string(kAirId));
+  std::string looked_in = fmt::format("no shipped table {}/{}.csv", dir.string(), ref);
+  if (!is_id(ref)) {
+    std::filesystem::path p(ref);
+    if (p.is_relative() && !relative_to.empty()) p = relative_to / p;
+    looked_in = fmt::format("no file {}", p.string());
+  } else {
+    std::filesystem::path p(ref);
+    if (!relative_to.empty()) p = relative_to / p;
+    looked_in += fmt::format(" and no file {}", p.string());
+  }
+  throw MaterialError(fmt::format(
+      "unknown material '{}' ({}); known ids: {}; or give a path to a `wavelength_nm,n,k` CSV "
+      "file, or a constant index {{ n = ..., k = ... }}",
+      ref, looked_in, join(known, ", ")));
+}
+
+}  // namespace lumtrap

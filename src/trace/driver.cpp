@@ -1,0 +1,132 @@
+#include "trace/driver.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <fmt/format.h>
+#include <stdexcept>
+
+#include "trace/checkpoint.hpp"
+
+namespace lumtrap {
+
+double jg_sigma(const PreparedRun& run, const std::vector<WavelengthTally>& tallies) {
+  double var = 0;
+  for (std::size_t i = 0; i < tallies.size(); ++i) {
+    const auto& t = tallies[i];
+    if (!t.photons) continue;
+    const double p = double(t.A_si) / double(t.photons);
+    var += run.band_weight[i] * run.band_weight[i] * p * (1 - p) / double(t.photons);
+  }
+  return current_mA_per_cm2(std::sqrt(var));
+}
+
+namespace {
+
+struct Driver {
+  const PreparedRun& run;
+  const DriveOptions& opt;
+  std::vector<WavelengthTally> tallies;
+  std::vector<WavelengthOptics> optics;  // built lazily, one per wavelength
+
+  const WavelengthOptics& optics_of(std::size_t i) {
+    if (optics.size() != tallies.size()) optics.resize(tallies.size());
+    if (optics[i].wavelength_nm == 0) optics[i] = wavelength_optics(run, i);
+    return optics[i];
+  }
+
+  bool stopped() const { return opt.stop && opt.stop->load(); }
+
+  void save() {
+    if (opt.checkpoint.empty()) return;
+    save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies});
+  }
+
+  // Brings wavelength i up to `target` photons in batches; false if stopped.
+  bool top_up(std::size_t i, std::uint64_t target, double done_before, double total_work) {
+    while (tallies[i].photons < target) {
+      if (stopped()) return false;
+      const std::uint64_t begin = tallies[i].photons;
+      const std::uint64_t end = std::min(target, begin + opt.batch);
+      tallies[i] += trace_wavelength(run, optics_of(i), i, begin, end);
+      save();
+      if (opt.progress && total_work > 0)
+        opt.progress(std::min(1.0, (done_before + double(tallies[i].photons)) / total_work));
+    }
+    return true;
+  }
+};
+
+}  // namespace
+
+DriveResult drive_run(const PreparedRun& run, const DriveOptions& opt) {
+  const std::size_t nw = run.scene.illumination.wavelengths_nm.size();
+  Driver d{run, opt, std::vector<WavelengthTally>(nw, WavelengthTally(run.layout)), {}};
+  if (!opt.checkpoint.empty()) {
+    if (auto saved = load_tally_set(opt.checkpoint, run.layout)) {
+      if (saved->scene_hash != opt.scene_hash || saved->tallies.size() != nw)
+        throw std::runtime_error(fmt::format(
+            "checkpoint {} belongs to another scene (hash {}, this scene {}); remove it to start afresh",
+            opt.checkpoint.string(), saved->scene_hash, opt.scene_hash));
+      d.tallies = std::move(saved->tallies);
+    }
+  }
+  const std::uint64_t cap = run.scene.run.photons;
+  const double target = run.scene.run.target_jg_error;
+  DriveResult out;
+
+  if (target <= 0) {
+    const double total = double(cap) * double(nw);
+    double done_before = 0;
+    for (std::size_t i = 0; i < nw; ++i) {
+      if (!d.top_up(i, cap, done_before, total)) {
+        out.tallies = std::move(d.tallies);
+        return out;
+      }
+      done_before += double(cap);
+    }
+  } else {
+    // Pilot, then Neyman allocation rounds.
+    const std::uint64_t pilot = std::min<std::uint64_t>(cap, 2000);
+    for (std::size_t i = 0; i < nw; ++i)
+      if (!d.top_up(i, std::max(pilot, d.tallies[i].photons), 0, 0)) {
+        out.tallies = std::move(d.tallies);
+        return out;
+      }
+    for (int round = 0; round < 50; ++round) {
+      const double sigma = jg_sigma(run, d.tallies);
+      if (sigma <= target) break;
+      // Total photons needed if allocated optimally: (Σ w_i s_i)^2 / σ_t^2,
+      // with s_i = sqrt(p_i (1 - p_i)) (floored so no wavelength starves).
+      std::vector<double> ws(nw);
+      double sum_ws = 0;
+      for (std::size_t i = 0; i < nw; ++i) {
+        const auto& t = d.tallies[i];
+        double p = double(t.A_si) / double(std::max<std::uint64_t>(t.photons, 1));
+        p = std::clamp(p, 0.5 / double(t.photons + 1), 1.0 - 0.5 / double(t.photons + 1));
+        ws[i] = run.band_weight[i] * std::sqrt(p * (1 - p));
+        sum_ws += ws[i];
+      }
+      const double sigma_flux = target / current_mA_per_cm2(1.0);  // target in photons m^-2 s^-1
+      const double n_total = sum_ws * sum_ws / (sigma_flux * sigma_flux) * 1.05;
+      bool grew = false;
+      for (std::size_t i = 0; i < nw; ++i) {
+        const auto want = std::uint64_t(std::ceil(n_total * ws[i] / sum_ws));
+        const std::uint64_t goal = std::min(cap, want);
+        if (goal > d.tallies[i].photons) {
+          grew = true;
+          if (!d.top_up(i, goal, 0, 0)) {
+            out.tallies = std::move(d.tallies);
+            return out;
+          }
+        }
+      }
+      if (!grew) break;  // capped everywhere
+    }
+  }
+  out.jg_sigma_mA_cm2 = jg_sigma(run, d.tallies);
+  out.tallies = std::move(d.tallies);
+  out.complete = true;
+  return out;
+}
+
+}  // namespace lumtrap

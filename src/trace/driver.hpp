@@ -1,0 +1,42 @@
+#pragma once
+// Drives a prepared run over its wavelengths in batches of photons:
+// checkpoints after every batch (resume after an interruption gives the same
+// final numbers), reports progress, and in precision mode allocates photons
+// over wavelengths until the standard error of J_G meets the target.
+#include <atomic>
+#include <cstdint>
+#include <filesystem>
+#include <functional>
+#include <string>
+#include <vector>
+
+#include "trace/run.hpp"
+
+namespace lumtrap {
+
+struct DriveOptions {
+  std::filesystem::path checkpoint;      ///< empty: no checkpoints
+  std::string scene_hash;                ///< stored in and checked against the checkpoint
+  std::uint64_t batch = 50000;           ///< photons per wavelength between checkpoints
+  std::function<void(double done_fraction)> progress;  ///< called between batches (may be empty)
+  const std::atomic<bool>* stop = nullptr;  ///< set asynchronously to stop after the current batch
+};
+
+struct DriveResult {
+  std::vector<WavelengthTally> tallies;
+  bool complete = false;   ///< false when stopped early (checkpoint holds the work done)
+  double jg_sigma_mA_cm2 = 0;
+};
+
+/// Fixed mode (run.target_jg_error == 0): run.photons per wavelength.
+/// Precision mode (> 0): a pilot of min(photons, 2000) per wavelength, then
+/// Neyman allocation (N_i ∝ w_i sqrt(p_i (1 - p_i)), the allocation that
+/// minimises Var(J_G) for a given total; W. G. Cochran, Sampling Techniques,
+/// 3rd ed., 1977, §5.5) in rounds until σ(J_G) <= target; run.photons caps
+/// each wavelength.
+DriveResult drive_run(const PreparedRun& run, const DriveOptions& options);
+
+/// σ(J_G) in mA/cm² of a set of tallies.
+double jg_sigma(const PreparedRun& run, const std::vector<WavelengthTally>& tallies);
+
+}  // namespace lumtrap

@@ -1,0 +1,38 @@
+#pragma once
+// Embree objects with explicit ownership: one device per run, one scene per
+// texture tile (front, rear). The scene owns a copy of the tile's triangles
+// in single precision; the transport keeps double-precision normals.
+#include <embree3/rtcore.h>
+
+#include "geometry/mesh.hpp"
+
+namespace lumtrap {
+
+/// Owns an RTCDevice. Errors from Embree are turned into exceptions.
+class EmbreeDevice {
+ public:
+  EmbreeDevice();
+  ~EmbreeDevice();
+  EmbreeDevice(const EmbreeDevice&) = delete;
+  EmbreeDevice& operator=(const EmbreeDevice&) = delete;
+  RTCDevice get() const { return device_; }
+
+ private:
+  RTCDevice device_ = nullptr;
+};
+
+/// Owns an RTCScene holding one triangle geometry: the mesh of one tile.
+/// Triangle primID i is mesh.triangles[i].
+class TileScene {
+ public:
+  TileScene(const EmbreeDevice& device, const geometry::TileMesh& mesh);
+  ~TileScene();
+  TileScene(const TileScene&) = delete;
+  TileScene& operator=(const TileScene&) = delete;
+  RTCScene get() const { return scene_; }
+
+ private:
+  RTCScene scene_ = nullptr;
+};
+
+}  // namespace lumtrap

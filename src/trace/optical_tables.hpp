@@ -1,0 +1,52 @@
+#pragma once
+// Optical tables of one wavelength: the indices of the media and, for each
+// surface and each facet class, the film-stack response tabulated in the
+// cosine of the angle of incidence, from the outside and from the silicon.
+#include <vector>
+
+#include "io/scene.hpp"
+#include "optics/material.hpp"
+#include "optics/stack_table.hpp"
+
+namespace lumtrap {
+
+/// The scene's materials, read once.
+struct SceneMaterials {
+  Material ambient, bulk, rear_medium;
+  std::vector<Material> front_films, rear_films;
+};
+
+SceneMaterials load_scene_materials(const Scene& scene);
+
+/// Resolves a scene's material reference (paths relative to the scene file).
+Material material_from_ref(const MaterialRef& ref, const Scene& scene);
+
+struct SurfaceOptics {
+  std::vector<StackTable> from_outside;  ///< per facet class
+  std::vector<StackTable> from_inside;   ///< per facet class (from the silicon)
+  double n_outside = 1, n_inside = 1;    ///< real indices, for Snell's law
+  bool outside_absorbs = false;          ///< light entering the outside medium is absorbed there
+  bool ideal = false;                    ///< InterfaceModel::ideal: R = 0 unless totally reflected
+};
+
+struct WavelengthOptics {
+  double wavelength_nm = 0;
+  double alpha_per_um = 0;  ///< absorption coefficient of the bulk, 4πk/λ
+  double n_bulk = 1;        ///< real index of the bulk
+  SurfaceOptics front, rear;
+};
+
+/// Table of a perfect mirror (perfect conductor: r_s = -1, r_p = +1 in the
+/// frame of fresnel.hpp, R = 1 at every angle, nothing transmitted or absorbed).
+StackTable perfect_mirror_table(int samples);
+
+/// Builds the tables at one wavelength. `front_tilt_cos` / `rear_tilt_cos`
+/// are the cosines of the facet classes' tilts (one entry = one class); film
+/// thickness on a class is the deposited thickness times the tilt cosine for
+/// directional films, unchanged for conformal films.
+WavelengthOptics make_wavelength_optics(const Scene& scene, const SceneMaterials& materials,
+                                        const std::vector<double>& front_tilt_cos,
+                                        const std::vector<double>& rear_tilt_cos,
+                                        double wavelength_nm, int table_samples = 1025);
+
+}  // namespace lumtrap

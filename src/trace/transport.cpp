@@ -1,0 +1,440 @@
+#include "trace/transport.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "trace/polarization.hpp"
+#include "trace/rng.hpp"
+#include "trace/sampling.hpp"
+
+namespace lumtrap {
+
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+constexpr double kInf = std::numeric_limits<double>::infinity();
+constexpr int kMaxWallCrossings = 100000;  // per zone traversal; beyond: lost
+
+enum class Zone { front, rear, bulk_down, bulk_up };
+enum class Medium { outside_front, silicon, outside_rear };
+enum class ZoneExit { hit, top, bottom, lost };
+
+struct Photon {
+  Eigen::Vector3d p;  // position in the current zone's local frame (x, y in [0, period])
+  Eigen::Vector3d d;  // unit direction
+  Field E;            // unit complex field ⟂ d
+  Zone zone = Zone::front;
+  Medium medium = Medium::outside_front;
+  bool entered = false;
+  double optical_depth_left = 0;  // Beer-Lambert budget: absorbed when α·path exceeds it
+  int interactions = 0;
+  int passes = 0;
+};
+
+// Moves the photon through one textured zone until it hits the surface or
+// leaves the zone through its top or bottom plane; lateral tile walls wrap
+// around (periodic tile). `path` returns the distance travelled.
+ZoneExit cross_zone(const TileScene& scene, const SurfaceModel& s, Photon& ph, double& path,
+                    unsigned& prim) {
+  path = 0;
+  const Eigen::Vector3d& d = ph.d;
+  const double L = s.period;
+  for (int k = 0; k < kMaxWallCrossings; ++k) {
+    const Eigen::Vector3d& p = ph.p;
+    double tz = d.z() > 0 ? (s.zone_hi - p.z()) / d.z() : d.z() < 0 ? (s.zone_lo - p.z()) / d.z() : kInf;
+    double tx = d.x() > 0 ? (L - p.x()) / d.x() : d.x() < 0 ? -p.x() / d.x() : kInf;
+    double ty = d.y() > 0 ? (L - p.y()) / d.y() : d.y() < 0 ? -p.y() / d.y() : kInf;
+    tz = std::max(tz, 0.0);
+    tx = std::max(tx, 0.0);
+    ty = std::max(ty, 0.0);
+    const double twall = std::min(tx, ty);
+    const double tmax = std::min(tz, twall);
+
+    RTCRayHit rh;
+    rh.ray.org_x = float(p.x());
+    rh.ray.org_y = float(p.y());
+    rh.ray.org_z = float(p.z());
+    rh.ray.dir_x = float(d.x());
+    rh.ray.dir_y = float(d.y());
+    rh.ray.dir_z = float(d.z());
+    rh.ray.tnear = 0.0f;
+    rh.ray.tfar = float(tmax) * (1.0f + 4e-7f) + 1e-30f;
+    rh.ray.mask = 0xFFFFFFFFu;
+    rh.ray.flags = 0;
+    rh.ray.time = 0.0f;
+    rh.hit.geomID = RTC_INVALID_GEOMETRY_ID;
+    rh.hit.instID[0] = RTC_INVALID_GEOMETRY_ID;
+    RTCIntersectContext ictx;
+    rtcInitIntersectContext(&ictx);
+    rtcIntersect1(scene.get(), &ictx, &rh);
+
+    if (rh.hit.geomID != RTC_INVALID_GEOMETRY_ID) {
+      const double t = rh.ray.tfar;
+      ph.p += t * d;
+      path += t;
+      prim = rh.hit.primID;
+      return ZoneExit::hit;
+    }
+    if (tz <= twall) {
+      ph.p += tz * d;
+      ph.p.z() = d.z() > 0 ? s.zone_hi : s.zone_lo;
+      path += tz;
+      return d.z() > 0 ? ZoneExit::top : ZoneExit::bottom;
+    }
+    // Periodic wrap at the wall(s) reached first.
+    ph.p += twall * d;
+    path += twall;
+    if (tx <= twall) ph.p.x() = d.x() > 0 ? 0.0 : L;
+    if (ty <= twall) ph.p.y() = d.y() > 0 ? 0.0 : L;
+  }
+  return ZoneExit::lost;
+}
+
+inline double wrap(double x, double L) {
+  double r = std::fmod(x, L);
+  if (r < 0) r += L;
+  return r;
+}
+
+// Height of the front surface (front local z) above (x, y).
+double front_height(const TraceContext& ctx, double x, double y) {
+  const SurfaceModel& s = ctx.model->front;
+  if (s.mesh.max_z() - s.mesh.min_z() <= 0) return s.mesh.max_z();
+  RTCRayHit rh;
+  rh.ray.org_x = float(x);
+  rh.ray.org_y = float(y);
+  rh.ray.org_z = float(s.zone_lo);
+  rh.ray.dir_x = 0.0f;
+  rh.ray.dir_y = 0.0f;
+  rh.ray.dir_z = 1.0f;
+  rh.ray.tnear = 0.0f;
+  rh.ray.tfar = float(s.zone_hi - s.zone_lo);
+  rh.ray.mask = 0xFFFFFFFFu;
+  rh.ray.flags = 0;
+  rh.ray.time = 0.0f;
+  rh.hit.geomID = RTC_INVALID_GEOMETRY_ID;
+  rh.hit.instID[0] = RTC_INVALID_GEOMETRY_ID;
+  RTCIntersectContext ictx;
+  rtcInitIntersectContext(&ictx);
+  rtcIntersect1(ctx.front_scene->get(), &ictx, &rh);
+  if (rh.hit.geomID == RTC_INVALID_GEOMETRY_ID) return s.mesh.mean_z();  // on a seam: mean level
+  return s.zone_lo + rh.ray.tfar;
+}
+
+// Wafer z of a point of the photon's current zone frame.
+double wafer_z(const TraceContext& ctx, Zone zone, double z_local) {
+  return zone == Zone::rear ? ctx.model->rear_origin_z + z_local : ctx.model->front_origin_z + z_local;
+}
+
+void tally_absorbed_si(const TraceContext& ctx, const Photon& ph, double x, double y, double z_wafer,
+                       WavelengthTally& t) {
+  ++t.A_si;
+  const double surface = ctx.model->front_origin_z + front_height(ctx, wrap(x, ctx.model->front.period),
+                                                                  wrap(y, ctx.model->front.period));
+  const double depth = std::max(0.0, surface - z_wafer);
+  const auto& edges = ctx.layout->depth_edges_um;
+  auto it = std::upper_bound(edges.begin(), edges.end(), depth);
+  std::size_t bin = it == edges.begin() ? 0 : std::size_t(it - edges.begin()) - 1;
+  if (bin >= t.depth.size()) bin = t.depth.size() - 1;
+  ++t.depth[bin];
+  int pb = std::min(ph.passes, ctx.layout->pass_bins - 1);
+  ++t.passes_absorbed[pb];
+}
+
+std::size_t angle_bin(const TallyLayout& L, double cos_polar, double dx, double dy) {
+  double theta = std::acos(std::clamp(cos_polar, -1.0, 1.0)) * 180.0 / kPi;
+  int pb = std::clamp(int(theta / (90.0 / L.polar_bins)), 0, L.polar_bins - 1);
+  double phi = std::atan2(dy, dx) * 180.0 / kPi;
+  if (phi < 0) phi += 360.0;
+  int ab = std::clamp(int(phi / (360.0 / L.azimuth_bins)), 0, L.azimuth_bins - 1);
+  return std::size_t(pb) * L.azimuth_bins + ab;
+}
+
+// Beer-Lambert over a straight path in the silicon: returns the fraction of
+// `path` travelled before absorption, or a negative number if the photon
+// survives the whole path (its optical-depth budget is reduced).
+double absorb_along(Photon& ph, double alpha, double path) {
+  const double od = alpha * path;
+  if (od < ph.optical_depth_left) {
+    ph.optical_depth_left -= od;
+    return -1.0;
+  }
+  return ph.optical_depth_left / od;
+}
+
+Field random_linear_field(const Eigen::Vector3d& d, PhotonRng& rng) {
+  Eigen::Vector3d b1, b2;
+  orthonormal_basis(d, b1, b2);
+  return linear_field(b1, b2, 2.0 * kPi * rng.uniform());
+}
+
+enum class Outcome { continues, ended };
+
+// One interaction with a surface triangle. `front` tells which surface.
+Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph, PhotonRng& rng,
+                 WavelengthTally& t) {
+  const SurfaceModel& sm = front ? ctx.model->front : ctx.model->rear;
+  const SurfaceOptics& so = front ? ctx.optics->front : ctx.optics->rear;
+  const SurfaceScatter& sc = front ? ctx.front_scatter : ctx.rear_scatter;
+  const Eigen::Vector3d& nout = sm.outward[prim];
+  const double dn = ph.d.dot(nout);
+  const bool from_inside = dn > 0;  // travelling from the silicon to the outside
+  const bool in_silicon = ph.medium == Medium::silicon;
+  if (from_inside != in_silicon || dn == 0.0) {
+    ++t.lost;  // the ray met the surface from the side it is not on
+    return Outcome::ended;
+  }
+  const Eigen::Vector3d m = from_inside ? Eigen::Vector3d(-nout) : nout;  // normal on the incident side
+  const StackTable& table = (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
+  const double n1 = from_inside ? so.n_inside : so.n_outside;
+  const double n2 = from_inside ? so.n_outside : so.n_inside;
+  const double eta = n1 / n2;
+
+  // A diffuse (Lambertian) event: the surface first turns the arriving light
+  // into Lambertian light, so the interface sees a cosine-distributed angle of
+  // incidence and no particular polarization, and whatever leaves it, on
+  // either side, leaves cosine-distributed. This is the surface of the
+  // Lambertian light-trapping limit: from inside, an ideal interface then lets
+  // out exactly 1/n² of the light whatever its direction of arrival.
+  const bool diffuse = sc.kind == SurfaceScattering::lambertian ||
+                       (sc.kind == SurfaceScattering::mixed && rng.uniform() <= sc.diffuse_fraction);
+  const double cos_i = diffuse ? std::sqrt(rng.uniform()) : std::min(1.0, std::abs(dn));
+  const double sin2t = eta * eta * (1.0 - cos_i * cos_i);
+  InterfaceResponse r;
+  if (so.ideal) {  // exact, no table: everything refracts unless totally reflected
+    const cplx one(1, 0), zero(0, 0);
+    r = sin2t >= 1.0 ? InterfaceResponse{one, one, zero, zero, 1, 1, 0, 0}
+                     : InterfaceResponse{zero, zero, one, one, 0, 0, 1, 1};
+  } else {
+    r = table.at(cos_i);
+  }
+
+  const Eigen::Vector3d s = s_vector(ph.d, m, ph.E);
+  const Eigen::Vector3d p_in = ph.d.cross(s);
+  const std::complex<double> Es = component(ph.E, s), Ep = component(ph.E, p_in);
+  double ws = 0.5, wp = 0.5;
+  if (!diffuse) {
+    ws = std::norm(Es);
+    wp = std::norm(Ep);
+    const double wsum = ws + wp;
+    ws /= wsum;
+    wp /= wsum;
+  }
+  const double R = r.Rs * ws + r.Rp * wp;
+  const double T = r.Ts * ws + r.Tp * wp;
+  const double xi = rng.uniform();
+  const Eigen::Vector3d hit = ph.p;
+
+  if (xi <= R) {  // reflection, stays on the incident side
+    if (diffuse) {
+      ph.d = cosine_weighted(m, rng.uniform(), rng.uniform());
+      ph.E = random_linear_field(ph.d, rng);
+    } else {
+      ph.d = (ph.d + 2.0 * cos_i * m).normalized();
+      if (!rebuild_field(ph.E, r.rs * Es, s, r.rp * Ep, ph.d.cross(s))) ph.E = random_linear_field(ph.d, rng);
+    }
+    ph.p = hit + sm.eps * m;
+    return Outcome::continues;
+  }
+  if (xi <= R + T || table.layers == 0) {  // transmission (no films: nothing else can happen)
+    const bool to_outside = from_inside;
+    if (to_outside && so.outside_absorbs) {
+      ++t.A_rear_medium;  // only the rear medium can absorb (a metal)
+      return Outcome::ended;
+    }
+    if (diffuse) {
+      ph.d = cosine_weighted(-m, rng.uniform(), rng.uniform());
+      ph.E = random_linear_field(ph.d, rng);
+    } else if (sin2t >= 1.0) {
+      // T > 0 read from the table just beyond the critical angle (the
+      // interpolation's edge): nothing can refract, so it reflects.
+      ph.d = (ph.d + 2.0 * cos_i * m).normalized();
+      if (!rebuild_field(ph.E, r.rs * Es, s, r.rp * Ep, ph.d.cross(s))) ph.E = random_linear_field(ph.d, rng);
+      ph.p = hit + sm.eps * m;
+      return Outcome::continues;
+    } else {
+      const double cos_t = std::sqrt(1.0 - sin2t);
+      ph.d = (eta * ph.d + (eta * cos_i - cos_t) * m).normalized();
+      if (!rebuild_field(ph.E, r.ts * Es, s, r.tp * Ep, ph.d.cross(s))) ph.E = random_linear_field(ph.d, rng);
+    }
+    if (to_outside) {
+      ph.medium = front ? Medium::outside_front : Medium::outside_rear;
+    } else {
+      ph.medium = Medium::silicon;
+      ph.entered = true;
+    }
+    ph.p = hit - sm.eps * m;
+    return Outcome::continues;
+  }
+  // absorbed in one of the films
+  const int layer = table.pick_absorbing_layer(cos_i, ws, wp, rng.uniform());
+  if (front)
+    ++t.A_front[layer];
+  else
+    ++t.A_rear[layer];
+  return Outcome::ended;
+}
+
+// Initial direction and field of a photon.
+void launch(const TraceContext& ctx, PhotonRng& rng, Photon& ph) {
+  const Illumination& il = *ctx.illumination;
+  const SurfaceModel& f = ctx.model->front;
+  if (il.kind == IlluminationKind::diffuse) {
+    ph.d = cosine_weighted(Eigen::Vector3d(0, 0, -1), rng.uniform(), rng.uniform());
+  } else {
+    const double st = std::sin(il.polar_rad), ct = std::cos(il.polar_rad);
+    ph.d = Eigen::Vector3d(st * std::cos(il.azimuth_rad), st * std::sin(il.azimuth_rad), -ct);
+  }
+  // s and p relative to the wafer's plane of incidence (the plane through
+  // the direction and the wafer normal); at normal incidence the azimuth
+  // fixes the plane.
+  Eigen::Vector3d s = ph.d.cross(Eigen::Vector3d(0, 0, 1));
+  if (s.squaredNorm() < 1e-20) s = Eigen::Vector3d(-std::sin(il.azimuth_rad), std::cos(il.azimuth_rad), 0);
+  s.normalize();
+  const Eigen::Vector3d p = ph.d.cross(s);
+  double psi = 0;
+  switch (il.polarization) {
+    case PolarizationKind::s: psi = 0; break;
+    case PolarizationKind::p: psi = 0.5 * kPi; break;
+    case PolarizationKind::unpolarized: psi = kPi * rng.uniform(); break;
+  }
+  ph.E = linear_field(s, p, psi);
+  ph.p = Eigen::Vector3d(f.period * rng.uniform(), f.period * rng.uniform(), f.zone_hi);
+  ph.zone = Zone::front;
+  ph.medium = Medium::outside_front;
+  ph.optical_depth_left = -std::log(rng.uniform());
+}
+
+void trace_one(const TraceContext& ctx, PhotonRng& rng, WavelengthTally& t) {
+  Photon ph;
+  launch(ctx, rng, ph);
+  const WaferModel& M = *ctx.model;
+  const double alpha = ctx.optics->alpha_per_um;
+  const TallyLayout& L = *ctx.layout;
+
+  for (;;) {
+    if (ph.zone == Zone::bulk_down || ph.zone == Zone::bulk_up) {
+      // Straight crossing of the flat bulk between the textured zones.
+      const double path = M.bulk_gap / std::abs(ph.d.z());
+      const bool down = ph.zone == Zone::bulk_down;
+      const double start_z = down ? M.front_origin_z + M.front.zone_lo : M.rear_origin_z + M.rear.zone_hi;
+      const double f = absorb_along(ph, alpha, path);
+      if (f >= 0) {
+        const Eigen::Vector3d q = ph.p + f * path * ph.d;
+        tally_absorbed_si(ctx, ph, q.x(), q.y(), start_z + f * path * ph.d.z(), t);
+        return;
+      }
+      ++ph.passes;
+      ++t.bulk_passes;
+      const SurfaceModel& next = down ? M.rear : M.front;
+      if (ctx.randomize_lateral) {
+        ph.p.x() = next.period * rng.uniform();
+        ph.p.y() = next.period * rng.uniform();
+      } else {
+        ph.p.x() = wrap(ph.p.x() + path * ph.d.x(), next.period);
+        ph.p.y() = wrap(ph.p.y() + path * ph.d.y(), next.period);
+      }
+      if (down) {
+        ph.p.z() = M.rear.zone_hi;
+        ph.zone = Zone::rear;
+        ++t.rear_angle[angle_bin(L, -ph.d.z(), ph.d.x(), ph.d.y())];
+      } else {
+        ph.p.z() = M.front.zone_lo;
+        ph.zone = Zone::front;
+      }
+      continue;
+    }
+
+    if (ph.interactions >= ctx.max_bounces) {
+      ++t.unresolved;
+      return;
+    }
+    const bool front = ph.zone == Zone::front;
+    const SurfaceModel& sm = front ? M.front : M.rear;
+    double path = 0;
+    unsigned prim = 0;
+    const Eigen::Vector3d start = ph.p;
+    const ZoneExit ex = cross_zone(front ? *ctx.front_scene : *ctx.rear_scene, sm, ph, path, prim);
+    if (ph.medium == Medium::silicon) {
+      const double f = absorb_along(ph, alpha, path);
+      if (f >= 0) {
+        // The absorption point, unwrapped from the segment's start: depth
+        // needs only its height and its (wrapped) lateral position.
+        const double dist = f * path;
+        const Eigen::Vector3d q = start + dist * ph.d;
+        tally_absorbed_si(ctx, ph, q.x(), q.y(), wafer_z(ctx, ph.zone, q.z()), t);
+        return;
+      }
+    }
+    switch (ex) {
+      case ZoneExit::hit:
+        ++ph.interactions;
+        ++t.interactions;
+        if (interact(ctx, front, prim, ph, rng, t) == Outcome::ended) return;
+        break;
+      case ZoneExit::top:
+        if (front && ph.medium == Medium::outside_front) {
+          if (ph.entered) {
+            ++t.R_escape;
+            ++t.escape_angle[angle_bin(L, ph.d.z(), ph.d.x(), ph.d.y())];
+          } else {
+            ++t.R_front;
+            ++t.R_front_hits[std::min(ph.interactions, L.hit_bins - 1)];
+          }
+          return;
+        }
+        if (!front && ph.medium == Medium::silicon) {
+          ph.zone = Zone::bulk_up;
+          break;
+        }
+        ++t.lost;
+        return;
+      case ZoneExit::bottom:
+        if (front && ph.medium == Medium::silicon) {
+          ph.zone = Zone::bulk_down;
+          break;
+        }
+        if (!front && ph.medium == Medium::outside_rear) {
+          ++t.T;
+          return;
+        }
+        ++t.lost;
+        return;
+      case ZoneExit::lost:
+        ++t.lost;
+        return;
+    }
+  }
+}
+
+}  // namespace
+
+TraceContext make_trace_context(const Scene& scene, const WaferModel& model, const TileScene& front,
+                                const TileScene& rear, const WavelengthOptics& optics,
+                                const TallyLayout& layout, std::uint64_t wavelength_index) {
+  TraceContext c;
+  c.model = &model;
+  c.front_scene = &front;
+  c.rear_scene = &rear;
+  c.optics = &optics;
+  c.layout = &layout;
+  c.illumination = &scene.illumination;
+  c.front_scatter = {scene.front.scattering, scene.front.diffuse_fraction};
+  c.rear_scatter = {scene.rear.scattering, scene.rear.diffuse_fraction};
+  c.max_bounces = scene.run.max_bounces;
+  c.randomize_lateral = scene.run.randomize_lateral;
+  c.seed = scene.run.seed;
+  c.wavelength_index = wavelength_index;
+  return c;
+}
+
+void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t end, WavelengthTally& tally) {
+  for (std::uint64_t i = begin; i < end; ++i) {
+    PhotonRng rng(ctx.seed, ctx.variant, ctx.wavelength_index, i);
+    ++tally.photons;
+    trace_one(ctx, rng, tally);
+  }
+}
+
+}  // namespace lumtrap

@@ -1,0 +1,50 @@
+#pragma once
+// The wafer's geometry as the transport sees it: two textured zones (front
+// and rear tiles, each in its own local frame) joined by a flat bulk slab
+// that rays cross analytically.
+//
+// Frames: front local z = height of the front texture mesh (z = 0 its lowest
+// level); rear local z = minus the rear texture's height (the rear texture
+// points out of the wafer, downward), silicon above. Wafer frame: z = 0 at
+// the rear reference level, z = thickness at the front reference level,
+// where "reference level" follows Wafer::thickness_convention (mean height,
+// base = lowest level, or apex = highest point of each texture).
+#include <cstdint>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "geometry/mesh.hpp"
+#include "io/scene.hpp"
+
+namespace lumtrap {
+
+struct SurfaceModel {
+  geometry::TileMesh mesh;               ///< in the zone's local frame
+  std::vector<Eigen::Vector3d> outward;  ///< per triangle, unit normal from the silicon to the outside
+  std::vector<std::uint16_t> facet_class;  ///< per triangle: index into tilt_cos
+  std::vector<double> tilt_cos;          ///< cos of the facet tilt of each class (1 = flat)
+  double zone_lo = 0, zone_hi = 0;       ///< clip planes just outside the mesh's z range
+  double period = 0;
+  double eps = 1e-6;                     ///< offset of new ray origins from a surface, µm
+};
+
+struct WaferModel {
+  SurfaceModel front, rear;
+  double front_origin_z = 0;  ///< wafer z of front local z = 0
+  double rear_origin_z = 0;   ///< wafer z of rear local z = 0
+  double bulk_gap = 0;        ///< wafer-z distance from the rear zone's top to the front zone's bottom
+  double front_surface_min_z = 0;  ///< wafer z of the lowest front point
+};
+
+/// Builds the meshes of the scene's textures and places them. Throws
+/// std::invalid_argument when the wafer is too thin for its textures.
+/// A surface with conformal films has one facet class (film thickness does
+/// not depend on tilt); with directional films, one class per distinct tilt.
+WaferModel build_wafer_model(const Scene& scene);
+
+/// Texture mesh of one surface as the scene describes it (front or rear),
+/// in the texture's own frame (height field, z >= 0).
+geometry::TileMesh texture_mesh(const Texture& texture);
+
+}  // namespace lumtrap

@@ -1,0 +1,98 @@
+// The ideal Lambertian light-trapping limit: every incident photon enters,
+// light inside is Lambertian, the rear is a perfect Lambertian reflector, the
+// front lets Lambertian light out with probability 1/n² (all of it inside
+// the escape cone, none outside). Exact absorptance (M. A. Green, "Lambertian
+// light trapping in textured solar cells and light-emitting diodes:
+// analytical solutions", Prog. Photovolt. 10, 235-241, 2002):
+//   A = 1 - (t²/n²) / (1 - (1 - 1/n²) t²),  t = 2 E3(αW)
+// and its weak-absorption limit A ≈ 4 n² α W (E. Yablonovitch, "Statistical
+// ray optics", J. Opt. Soc. Am. 72, 899-907, 1982).
+// Tracer vs exact: |Δ| <= 4σ (σ: the tracer's binomial standard error).
+#include <fmt/format.h>
+
+#include <cmath>
+#include <iostream>
+
+#include "trace_test_util.hpp"
+
+namespace lumtrap {
+namespace {
+
+// Exponential integrals E1..E3 (Abramowitz & Stegun, Handbook of
+// Mathematical Functions, 1964, 5.1.14: E_{n+1}(x) = (e^-x - x E_n(x)) / n).
+double E3(double x) {
+  const double e1 = -std::expint(-x);
+  const double e2 = std::exp(-x) - x * e1;
+  return 0.5 * (std::exp(-x) - x * e2);
+}
+
+double green_absorptance(double alpha_W, double n) {
+  const double t = 2.0 * E3(alpha_W);
+  const double n2 = n * n;
+  return 1.0 - (t * t / n2) / (1.0 - (1.0 - 1.0 / n2) * t * t);
+}
+
+std::string lambertian_scene(const std::string& thickness, const std::string& material,
+                             const std::string& wavelengths) {
+  return fmt::format(R"(
+[wafer]
+material = {}
+thickness = "{}"
+[front]
+interface = "ideal"
+scattering = "lambertian"
+[rear]
+medium = "perfect_mirror"
+scattering = "lambertian"
+[illumination]
+wavelengths = {}
+)",
+                     material, thickness, wavelengths);
+}
+
+TEST(LambertianLimit, TracerReproducesGreensExactAbsorptance) {
+  for (const char* W : {"100 um", "180 um"}) {
+    const Scene scene = test::scene_from_text(
+        lambertian_scene(W, "\"si_green2008\"", R"(["900 nm", "1000 nm", "1050 nm", "1100 nm", "1150 nm", "1200 nm"])"),
+        std::string("lambert_") + W[0]);
+    auto run = prepare_run(scene);
+    const std::uint64_t N = 20000;
+    const auto tallies = test::trace_all(*run, N);
+    for (std::size_t i = 0; i < tallies.size(); ++i) {
+      const auto optics = wavelength_optics(*run, i);
+      const double aW = optics.alpha_per_um * scene.wafer.thickness_um;
+      const double exact = green_absorptance(aW, optics.n_bulk);
+      const double traced = double(tallies[i].A_si) / double(N);
+      std::cout << fmt::format("W = {}, {} nm: A traced {:.4f}, exact {:.4f}\n", W,
+                               scene.illumination.wavelengths_nm[i], traced, exact);
+      EXPECT_NEAR(traced, exact, 4.0 * test::sigma_of(tallies[i].A_si, N)) << W << " " << i;
+      EXPECT_EQ(tallies[i].R_front, 0u);  // all light enters
+      EXPECT_EQ(tallies[i].lost, 0u);
+    }
+  }
+}
+
+TEST(LambertianLimit, WeakAbsorptionPathEnhancementIsFourNSquared) {
+  // n = 3.5 and k such that αW = 2e-4 at 1000 nm for W = 100 µm.
+  const double n = 3.5, W_um = 100.0, lam_nm = 1000.0, aW = 2e-4;
+  const double k = aW / (W_um * 1e3) * lam_nm / (4 * M_PI);
+  const Scene scene = test::scene_from_text(
+      lambertian_scene("100 um", fmt::format("{{ n = {}, k = {:.17g} }}", n, k), R"(["1000 nm"])"));
+  auto run = prepare_run(scene);
+  const std::uint64_t N = 200000;
+  const auto t = test::trace_all(*run, N)[0];
+  const double A = double(t.A_si) / double(N);
+  const double enhancement = A / aW;
+  std::cout << fmt::format("path enhancement: traced {:.2f} (± {:.2f}), 4n² = {:.2f}, Green exact {:.2f}\n",
+                           enhancement, test::sigma_of(t.A_si, N) / aW, 4 * n * n,
+                           green_absorptance(aW, n) / aW);
+  // Green's exact value tends to the 4n² limit (within 2 % at this αW, within
+  // 0.1 % at αW = 1e-6) ...
+  EXPECT_NEAR(green_absorptance(aW, n) / aW, 4 * n * n, 0.02 * 4 * n * n);
+  EXPECT_NEAR(green_absorptance(1e-6, n) / 1e-6, 4 * n * n, 0.001 * 4 * n * n);
+  // ... and the tracer matches it statistically.
+  EXPECT_NEAR(A, green_absorptance(aW, n), 4.0 * test::sigma_of(t.A_si, N));
+}
+
+}  // namespace
+}  // namespace lumtrap
