@@ -31,8 +31,20 @@ void FacetHorizon::push(std::vector<Piece>& out, double v0, double c0, double c1
 }
 
 void FacetHorizon::insert(double lo, double hi, double c0, double c1, int src) {
-  scratch_.clear();
   const std::size_t n = env_.size();
+  // Most lines pass below the envelope: check that before rebuilding it.
+  bool above = false;
+  for (std::size_t j = 0; j < n && !above; ++j) {
+    const Piece& p = env_[j];
+    const double p0 = p.v0, p1 = j + 1 < n ? env_[j + 1].v0 : 1.0;
+    if (p1 <= lo || p0 >= hi) continue;
+    const double start = std::max(p0, lo), end = std::min(p1, hi);
+    const double e0 = p.c0 + p.c1 * start, e1 = p.c0 + p.c1 * end;
+    const double tol = tol_ + 1e-13 * std::max(std::abs(e0), std::abs(e1));
+    above = (c0 + c1 * start) - e0 > tol || (c0 + c1 * end) - e1 > tol;
+  }
+  if (!above) return;
+  scratch_.clear();
   for (std::size_t j = 0; j < n; ++j) {
     const Piece& p = env_[j];
     const double p0 = p.v0, p1 = j + 1 < n ? env_[j + 1].v0 : 1.0;

@@ -172,47 +172,75 @@ TileMesh pyramid_envelope_mesh(const RandomPyramidLayout& layout, double facet_d
   const TileGrid grid(P, pyr.empty() ? P : mean_base, 2048);
   const std::size_t nbins = static_cast<std::size_t>(grid.n) * grid.n;
 
+  // Pyramids in the order of the grid bin holding their apex, so that
+  // neighbours are near each other in memory; pid keeps the layout index.
+  struct Sorted {
+    double cx, cy, a;
+    std::uint32_t pid;
+  };
+  std::vector<Sorted> sp(pyr.size());
+  {
+    std::vector<std::uint32_t> order(pyr.size());
+    std::vector<std::uint32_t> bin_of(pyr.size());
+    std::vector<std::uint32_t> count(nbins + 1, 0);
+    for (std::size_t i = 0; i < pyr.size(); ++i) {
+      bin_of[i] = static_cast<std::uint32_t>(static_cast<std::size_t>(grid.first(pyr[i].cy)) * grid.n +
+                                             grid.first(pyr[i].cx));
+      ++count[bin_of[i] + 1];
+    }
+    for (std::size_t b = 0; b < nbins; ++b) count[b + 1] += count[b];
+    for (std::size_t i = 0; i < pyr.size(); ++i) order[count[bin_of[i]]++] = static_cast<std::uint32_t>(i);
+    for (std::size_t r = 0; r < pyr.size(); ++r) {
+      const PlacedPyramid& p = pyr[order[r]];
+      sp[r] = {p.cx, p.cy, 0.5 * p.base, order[r]};
+    }
+  }
+
   // --- drop pyramids hidden whole under one other pyramid -----------------
   // p_k >= p_i everywhere exactly when pyramid i's apex is not above p_k
   // (cones of the same slope in the max-norm): a_k - |c_i - c_k|inf >= a_i,
-  // with the nearest periodic image of c_k. Equal pyramids: the lower index stays.
-  std::vector<char> hidden(pyr.size(), 0);
+  // with the nearest periodic image of c_k. Equal pyramids: the lower index
+  // stays. (A hidden pyramid missed here only costs time: its facets come out
+  // empty below.)
+  std::vector<char> hidden(sp.size(), 0);
   {
     const double w = P / grid.n;
+    const long n = grid.n;
+    auto cell = [&](double x) { return static_cast<long>(std::floor(x / w)); };
+    auto wrap_cell = [&](long i) { return static_cast<std::size_t>(((i % n) + n) % n); };
     BinIndex wrap;  // each pyramid in every bin its base square reaches, wrapped around the tile
-    wrap.build(nbins, pyr.size(), [&](std::size_t k, auto&& put) {
-      const double h = 0.5 * pyr[k].base;
-      const long i0 = static_cast<long>(std::floor((pyr[k].cx - h) / w)) - 1;
-      const long i1 = static_cast<long>(std::floor((pyr[k].cx + h) / w)) + 1;
-      const long j0 = static_cast<long>(std::floor((pyr[k].cy - h) / w)) - 1;
-      const long j1 = static_cast<long>(std::floor((pyr[k].cy + h) / w)) + 1;
-      const long n = grid.n;
-      for (long j = j0; j <= std::min(j1, j0 + n - 1); ++j)
-        for (long i = i0; i <= std::min(i1, i0 + n - 1); ++i)
-          put(static_cast<std::size_t>(((j % n) + n) % n) * n + static_cast<std::size_t>(((i % n) + n) % n));
+    wrap.build(nbins, sp.size(), [&](std::size_t k, auto&& put) {
+      const Sorted& q = sp[k];
+      const long i0 = cell(q.cx - q.a), i1 = std::min(cell(q.cx + q.a), i0 + n - 1);
+      const long j0 = cell(q.cy - q.a), j1 = std::min(cell(q.cy + q.a), j0 + n - 1);
+      for (long j = j0; j <= j1; ++j)
+        for (long i = i0; i <= i1; ++i) put(wrap_cell(j) * grid.n + wrap_cell(i));
     });
-    for (std::size_t i = 0; i < pyr.size(); ++i) {
-      const PlacedPyramid& p = pyr[i];
-      const std::size_t b = static_cast<std::size_t>(grid.first(p.cy)) * grid.n + grid.first(p.cx);
-      bool h = false;
-      wrap.for_each_in(b, [&](std::uint32_t k) {
-        if (h || k == i) return;
-        double dx = std::abs(p.cx - pyr[k].cx), dy = std::abs(p.cy - pyr[k].cy);
+    for (std::size_t i = 0; i < sp.size(); ++i) {
+      const Sorted& p = sp[i];
+      const std::size_t b = wrap_cell(cell(p.cy)) * grid.n + wrap_cell(cell(p.cx));
+      for (std::uint32_t s = wrap.start[b]; s < wrap.start[b + 1]; ++s) {
+        const std::uint32_t k = wrap.items[s];
+        const Sorted& q = sp[k];
+        if (k == i || q.a < p.a) continue;
+        double dx = std::abs(p.cx - q.cx), dy = std::abs(p.cy - q.cy);
         dx = std::min(dx, P - dx);
         dy = std::min(dy, P - dy);
-        const double margin = 0.5 * pyr[k].base - std::max(dx, dy) - 0.5 * p.base;
-        if (margin > 0 || (margin == 0 && k < i)) h = true;
-      });
-      hidden[i] = h;
+        const double margin = q.a - std::max(dx, dy) - p.a;
+        if (margin > 0 || (margin == 0 && q.pid < p.pid)) {
+          hidden[i] = 1;
+          break;
+        }
+      }
     }
   }
 
   // --- images of the pyramids left that reach into the tile ---------------
   std::vector<Instance> inst;
-  for (std::size_t i = 0; i < pyr.size(); ++i)
+  for (std::size_t i = 0; i < sp.size(); ++i)
     if (!hidden[i])
-      for_each_image(pyr[i], P, [&](const PyramidImage& s) {
-        inst.push_back({s.cx, s.cy, s.half, s.x0, s.x1, s.y0, s.y1, static_cast<std::uint32_t>(i), s.mx, s.my});
+      for_each_image(pyr[sp[i].pid], P, [&](const PyramidImage& s) {
+        inst.push_back({s.cx, s.cy, s.half, s.x0, s.x1, s.y0, s.y1, sp[i].pid, s.mx, s.my});
       });
   BinIndex index;
   index.build(nbins, inst.size(), [&](std::size_t k, auto&& put) {

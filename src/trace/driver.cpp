@@ -1,6 +1,7 @@
 #include "trace/driver.hpp"
 
 #include <algorithm>
+#include <chrono>
 #include <cmath>
 #include <fmt/format.h>
 #include <stdexcept>
@@ -27,6 +28,7 @@ struct Driver {
   const DriveOptions& opt;
   std::vector<WavelengthTally> tallies;
   std::vector<WavelengthOptics> optics;  // built lazily, one per wavelength
+  std::chrono::steady_clock::time_point last_save = std::chrono::steady_clock::now();
 
   const WavelengthOptics& optics_of(std::size_t i) {
     if (optics.size() != tallies.size()) optics.resize(tallies.size());
@@ -36,19 +38,25 @@ struct Driver {
 
   bool stopped() const { return opt.stop && opt.stop->load(); }
 
-  void save() {
+  void save(bool now) {
     if (opt.checkpoint.empty()) return;
+    const auto t = std::chrono::steady_clock::now();
+    if (!now && std::chrono::duration<double>(t - last_save).count() < opt.checkpoint_seconds) return;
     save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies});
+    last_save = t;
   }
 
   // Brings wavelength i up to `target` photons in batches; false if stopped.
   bool top_up(std::size_t i, std::uint64_t target, double done_before, double total_work) {
     while (tallies[i].photons < target) {
-      if (stopped()) return false;
+      if (stopped()) {
+        save(true);
+        return false;
+      }
       const std::uint64_t begin = tallies[i].photons;
       const std::uint64_t end = std::min(target, begin + opt.batch);
       tallies[i] += trace_wavelength(run, optics_of(i), i, begin, end);
-      save();
+      save(false);
       if (opt.progress && total_work > 0)
         opt.progress(std::min(1.0, (done_before + double(tallies[i].photons)) / total_work));
     }

@@ -1,7 +1,9 @@
 #pragma once
 // Drives a prepared run over its wavelengths in batches of photons:
-// checkpoints after every batch (resume after an interruption gives the same
-// final numbers), reports progress, and in precision mode allocates photons
+// checkpoints between batches every few seconds and when stopped (resuming
+// after an interruption, even a SIGKILL, gives the same final numbers: the
+// photons after the last checkpoint are traced again, identically), reports
+// progress, and in precision mode allocates photons
 // over wavelengths until the standard error of J_G meets the target.
 #include <atomic>
 #include <cstdint>
@@ -17,7 +19,8 @@ namespace lumtrap {
 struct DriveOptions {
   std::filesystem::path checkpoint;      ///< empty: no checkpoints
   std::string scene_hash;                ///< stored in and checked against the checkpoint
-  std::uint64_t batch = 50000;           ///< photons per wavelength between checkpoints
+  std::uint64_t batch = 50000;           ///< photons per wavelength per batch
+  double checkpoint_seconds = 10.0;      ///< write the checkpoint at most this often (and when stopping)
   std::function<void(double done_fraction)> progress;  ///< called between batches (may be empty)
   const std::atomic<bool>* stop = nullptr;  ///< set asynchronously to stop after the current batch
 };

@@ -100,7 +100,7 @@ inline double wrap(double x, double L) {
 // Height of the front surface (front local z) above (x, y).
 double front_height(const TraceContext& ctx, double x, double y) {
   const SurfaceModel& s = ctx.model->front;
-  if (s.mesh.max_z() - s.mesh.min_z() <= 0) return s.mesh.max_z();
+  if (s.max_z <= s.min_z) return s.max_z;  // flat
   RTCRayHit rh;
   rh.ray.org_x = float(x);
   rh.ray.org_y = float(y);
@@ -118,7 +118,7 @@ double front_height(const TraceContext& ctx, double x, double y) {
   RTCIntersectContext ictx;
   rtcInitIntersectContext(&ictx);
   rtcIntersect1(ctx.front_scene->get(), &ictx, &rh);
-  if (rh.hit.geomID == RTC_INVALID_GEOMETRY_ID) return s.mesh.mean_z();  // on a seam: mean level
+  if (rh.hit.geomID == RTC_INVALID_GEOMETRY_ID) return s.max_z;  // through a crack: the top (depth >= 0)
   return s.zone_lo + rh.ray.tfar;
 }
 

@@ -55,7 +55,9 @@ void finish_surface(SurfaceModel& s, bool up, bool classes_by_tilt) {
     s.facet_class[i] = static_cast<std::uint16_t>(k);
   }
   if (s.tilt_cos.size() > 65535) throw std::invalid_argument("too many distinct facet tilts");
-  double zmin = m.min_z(), zmax = m.max_z();
+  const double zmin = m.min_z(), zmax = m.max_z();
+  s.min_z = zmin;
+  s.max_z = zmax;
   double extent = std::max({m.period, zmax - zmin, 1.0});
   // New ray origins are offset from the surface by a few float ulps of the
   // largest coordinate (the Embree scene is single precision).

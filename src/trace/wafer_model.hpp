@@ -24,6 +24,7 @@ struct SurfaceModel {
   std::vector<Eigen::Vector3d> outward;  ///< per triangle, unit normal from the silicon to the outside
   std::vector<std::uint16_t> facet_class;  ///< per triangle: index into tilt_cos
   std::vector<double> tilt_cos;          ///< cos of the facet tilt of each class (1 = flat)
+  double min_z = 0, max_z = 0;           ///< the mesh's z range (local frame)
   double zone_lo = 0, zone_hi = 0;       ///< clip planes just outside the mesh's z range
   double period = 0;
   double eps = 1e-6;                     ///< offset of new ray origins from a surface, µm
