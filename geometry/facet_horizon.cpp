@@ -18,16 +18,16 @@ void FacetHorizon::reset(double a) {
   env_.push_back({-1.0, 1.0 / a, 0.0, 0});
 }
 
-void FacetHorizon::push(std::vector<Piece>& out, double v0, double c0, double c1, int src) const {
-  if (!out.empty()) {
-    if (out.back().src == src) return;  // the same line goes on
-    if (v0 <= out.back().v0) {         // the last piece has no length: replace it
-      out.pop_back();
-      if (!out.empty() && out.back().src == src) return;
-      if (out.empty()) v0 = -1.0;
+void FacetHorizon::push(Piece* out, std::size_t& n, double v0, double c0, double c1, int src) {
+  if (n > 0) {
+    if (out[n - 1].src == src) return;  // the same line goes on
+    if (v0 <= out[n - 1].v0) {         // the last piece has no length: replace it
+      --n;
+      if (n > 0 && out[n - 1].src == src) return;
+      if (n == 0) v0 = -1.0;
     }
   }
-  out.push_back({v0, c0, c1, src});
+  out[n++] = {v0, c0, c1, src};
 }
 
 void FacetHorizon::insert(double lo, double hi, double c0, double c1, int src) {
@@ -44,17 +44,20 @@ void FacetHorizon::insert(double lo, double hi, double c0, double c1, int src) {
     above = (c0 + c1 * start) - e0 > tol || (c0 + c1 * end) - e1 > tol;
   }
   if (!above) return;
-  scratch_.clear();
+  // Each piece splits in at most three (the ends of [lo, hi] and a crossing).
+  scratch_.resize(3 * n + 2);
+  Piece* out = scratch_.data();
+  std::size_t m = 0;
   for (std::size_t j = 0; j < n; ++j) {
     const Piece& p = env_[j];
     const double p0 = p.v0, p1 = j + 1 < n ? env_[j + 1].v0 : 1.0;
     if (p1 <= lo || p0 >= hi) {
-      push(scratch_, p0, p.c0, p.c1, p.src);
+      push(out, m, p0, p.c0, p.c1, p.src);
       continue;
     }
     double start = p0;
     if (p0 < lo) {
-      push(scratch_, p0, p.c0, p.c1, p.src);
+      push(out, m, p0, p.c0, p.c1, p.src);
       start = lo;
     }
     const double end = std::min(p1, hi);
@@ -62,21 +65,22 @@ void FacetHorizon::insert(double lo, double hi, double c0, double c1, int src) {
     const double d0 = (c0 + c1 * start) - e0, d1 = (c0 + c1 * end) - e1;
     const double tol = tol_ + 1e-13 * std::max(std::abs(e0), std::abs(e1));
     if (d0 <= tol && d1 <= tol) {
-      push(scratch_, start, p.c0, p.c1, p.src);
+      push(out, m, start, p.c0, p.c1, p.src);
     } else if (d0 >= -tol && d1 >= -tol) {
-      push(scratch_, start, c0, c1, src);
+      push(out, m, start, c0, c1, src);
     } else {
       const double vc = start + (end - start) * (d0 / (d0 - d1));
       if (d0 > 0) {
-        push(scratch_, start, c0, c1, src);
-        push(scratch_, vc, p.c0, p.c1, p.src);
+        push(out, m, start, c0, c1, src);
+        push(out, m, vc, p.c0, p.c1, p.src);
       } else {
-        push(scratch_, start, p.c0, p.c1, p.src);
-        push(scratch_, vc, c0, c1, src);
+        push(out, m, start, p.c0, p.c1, p.src);
+        push(out, m, vc, c0, c1, src);
       }
     }
-    if (p1 > hi) push(scratch_, hi, p.c0, p.c1, p.src);
+    if (p1 > hi) push(out, m, hi, p.c0, p.c1, p.src);
   }
+  scratch_.resize(m);
   env_.swap(scratch_);
 }
 
@@ -98,6 +102,29 @@ bool FacetHorizon::add(const FacetOccluder& occ) {
   if (ha && hb && r_end >= f_start) {  // no flat top: rising meets falling
     r_end = f_start = (occ.alpha - occ.beta) / (occ.alpha + occ.beta);
   }
+
+  // Does h_k rise above g anywhere? h_k - g is concave on each piece of g
+  // between the breaks of h_k, so checking all breaks of both suffices.
+  auto h = [&](double v) {
+    double r = hk ? occ.kappa : kInf;
+    if (hb) r = std::min(r, occ.beta * (1.0 + v));
+    if (ha) r = std::min(r, occ.alpha * (1.0 - v));
+    return r;
+  };
+  bool above = false;
+  const std::size_t n = env_.size();
+  for (std::size_t j = 0; j < n && !above; ++j) {
+    const Piece& p = env_[j];
+    const double p0 = p.v0, p1 = j + 1 < n ? env_[j + 1].v0 : 1.0;
+    auto over = [&](double v) {
+      const double e = p.c0 + p.c1 * v;
+      return h(v) - e > tol_ + 1e-13 * std::abs(e);
+    };
+    above = over(p0) || over(p1) || (r_end > p0 && r_end < p1 && over(r_end)) ||
+            (f_start > p0 && f_start < p1 && over(f_start));
+  }
+  if (!above) return true;
+
   const int src = next_src_;
   next_src_ += 3;
   if (hb && r_end > -1.0) insert(-1.0, r_end, occ.beta, occ.beta, src);

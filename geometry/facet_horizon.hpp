@@ -53,7 +53,7 @@ class FacetHorizon {
     int src;        ///< which line (0 = the facet base)
   };
   void insert(double lo, double hi, double c0, double c1, int src);
-  void push(std::vector<Piece>& out, double v0, double c0, double c1, int src) const;
+  static void push(Piece* out, std::size_t& n, double v0, double c0, double c1, int src);
 
   double a_ = 0;
   double tol_ = 0;

@@ -283,9 +283,24 @@ TileMesh pyramid_envelope_mesh(const RandomPyramidLayout& layout, double facet_d
   };
 
   // --- facets ---------------------------------------------------------------
+  // Neighbour K against facet d of pyramid I. Plane j of K (outward normal
+  // n_j) minus I's facet plane f, over tan(facet), in the facet frame (u
+  // along n, w along m, v = w/u, s = 1/u; see facet_horizon.hpp), times s:
+  //   (1 - n_j·n) - v·(n_j·m) + C_j·s,   C_j = (a_K - a_I) - n_j·(c_I - c_K),
+  // i.e. C_j is how far K's base square reaches past I's in direction n_j.
+  // For j = n it is a constant (K's facet parallel to f): K can rise above f
+  // only if C_n >= 0. For j = -n, m, -m it bounds s from above when C_j < 0:
+  // kappa = 2/(-C_-n), alpha = 1/(-C_m), beta = 1/(-C_-m).
+  constexpr int kM[4] = {2, 3, 1, 0};  // direction index of m for each facet d
   std::vector<std::uint32_t> stamp(inst.size(), 0), cands;
   std::uint32_t stamp_now = 0;
-  FacetHorizon horizon;
+  struct Near {
+    double a;
+    std::uint32_t k;
+    double C[4];
+  };
+  std::vector<Near> near;
+  FacetHorizon horizon[4];
   std::vector<Point2> outline;
   for (std::size_t ii = 0; ii < inst.size(); ++ii) {
     const Instance& I = inst[ii];
@@ -301,49 +316,52 @@ TileMesh pyramid_envelope_mesh(const RandomPyramidLayout& layout, double facet_d
             cands.push_back(k);
           }
         });
-    // Larger pyramids first: they set most of the outline, so the smaller
-    // ones are mostly rejected at once.
-    std::sort(cands.begin(), cands.end(), [&](std::uint32_t p, std::uint32_t q) {
-      return inst[p].a > inst[q].a || (inst[p].a == inst[q].a && p < q);
+    // Neighbours whose square meets I's, larger ones first: they set most of
+    // the outlines, so the smaller ones are mostly rejected at once.
+    const double reach = -2.0 * I.a - eps;  // C_j below this: K's square misses I's
+    near.clear();
+    for (std::uint32_t k : cands) {
+      const Instance& K = inst[k];
+      const double wx = I.cx - K.cx, wy = I.cy - K.cy, da = K.a - I.a;
+      const Near q{K.a, k, {da - wx, da + wx, da - wy, da + wy}};  // +x, -x, +y, -y
+      if (q.C[0] >= reach && q.C[1] >= reach && q.C[2] >= reach && q.C[3] >= reach) near.push_back(q);
+    }
+    std::sort(near.begin(), near.end(), [](const Near& p, const Near& q) {
+      return p.a > q.a || (p.a == q.a && p.k < q.k);
     });
+
+    bool buried[4] = {false, false, false, false};
+    int open = 4;
+    for (auto& h : horizon) h.reset(I.a);
+    for (const Near& q : near) {
+      const Instance& K = inst[q.k];
+      const double* C = q.C;
+      for (int d = 0; d < 4; ++d) {
+        if (buried[d]) continue;
+        const double same = C[d], back = C[d ^ 1], cm = C[kM[d]], cmm = C[kM[d] ^ 1];
+        if (same < -eps) continue;
+        if (same <= eps && !has_priority(K, I)) continue;  // coincident planes: tie-break
+        // (K hides part of the facet only if its square overlaps the facet's
+        // base edge; add() drops the others: their h_K stays below 1/a.)
+        const FacetOccluder occ{back < -eps ? 2.0 / -back : kInf, cm < -eps ? 1.0 / -cm : kInf,
+                                cmm < -eps ? 1.0 / -cmm : kInf};
+        if (!horizon[d].add(occ)) {
+          buried[d] = true;
+          --open;
+        }
+      }
+      if (open == 0) break;
+    }
+
     const bool inside = I.x0 >= 0 && I.x1 <= P && I.y0 >= 0 && I.y1 <= P;
     // Tile [0, P]² in coordinates relative to the apex.
     const HalfPlane tile[4] = {{1, 0, I.cx}, {-1, 0, P - I.cx}, {0, 1, I.cy}, {0, -1, P - I.cy}};
     std::uint32_t apex = UINT32_MAX;
-
     for (int d = 0; d < 4; ++d) {
+      if (buried[d]) continue;
       const int nx = kNx[d], ny = kNy[d], mx = -ny, my = nx;
-      // The facet's base edge: a neighbour hides part of the facet exactly
-      // when its base square overlaps this edge (what it hides is outward
-      // closed, see facet_horizon.hpp).
-      const double ex = I.cx + I.a * nx, ey = I.cy + I.a * ny;
-      const double ex0 = nx != 0 ? ex : I.cx - I.a, ex1 = nx != 0 ? ex : I.cx + I.a;
-      const double ey0 = ny != 0 ? ey : I.cy - I.a, ey1 = ny != 0 ? ey : I.cy + I.a;
-      horizon.reset(I.a);
-      bool buried = false;
-      for (std::uint32_t k : cands) {
-        const Instance& K = inst[k];
-        // (closed, with tolerance: a neighbour whose square only touches the
-        // edge hides nothing unless its facet plane coincides with this one)
-        if (!(K.x0 <= ex1 + eps && K.x1 >= ex0 - eps && K.y0 <= ey1 + eps && K.y1 >= ey0 - eps)) continue;
-        // Plane j of K minus this facet's plane f, over tan(facet), in the
-        // facet frame (u along n, w along m, v = w/u, s = 1/u), times s:
-        //   (1 - n_j·n) - v·(n_j·m) + C_j·s,  C_j = (a_K - a_I) - n_j·(c_I - c_K).
-        const double wx = I.cx - K.cx, wy = I.cy - K.cy, da = K.a - I.a;
-        const double nw = nx * wx + ny * wy, mw = mx * wx + my * wy;
-        const double c_same = da - nw;  // K's facet parallel to this one: a constant
-        if (c_same < -eps) continue;
-        if (c_same <= eps && !has_priority(K, I)) continue;  // coincident planes: tie-break
-        const double c_back = da + nw, c_m = da - mw, c_mm = da + mw;
-        const FacetOccluder occ{c_back < -eps ? 2.0 / -c_back : kInf, c_m < -eps ? 1.0 / -c_m : kInf,
-                                c_mm < -eps ? 1.0 / -c_mm : kInf};
-        if (!horizon.add(occ)) {
-          buried = true;
-          break;
-        }
-      }
-      if (buried) continue;
-      horizon.outline(outline);
+      const FacetHorizon& hz = horizon[d];
+      hz.outline(outline);
       ++st.facet_pieces;
       visible[I.pid] = 1;
       const Plane pl{I.cx, I.cy, I.a, nx, ny, false};

@@ -100,6 +100,7 @@ struct RunSettings {
   std::uint64_t seed = 1;
   int max_bounces = 10000;            ///< surface interactions per photon before it counts as unresolved
   bool randomize_lateral = true;      ///< new random lateral position on each bulk crossing
+  bool track_polarization = true;     ///< carry the field through every bounce; false: average R_s, R_p at each hit
   int threads = 0;                    ///< 0 = all cores
   bool depth_histograms = false;      ///< also write per-wavelength depth histograms
   double target_jg_error = 0.0;       ///< mA/cm²; > 0: run until σ(J_G) <= target (photons is then a cap)

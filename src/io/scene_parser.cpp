@@ -47,6 +47,7 @@ const Words<SurfaceScattering> kScatteringWords = {{"specular", SurfaceScatterin
                                                    {"mixed", SurfaceScattering::mixed}};
 const Words<InterfaceModel> kInterfaceWords = {{"films", InterfaceModel::films},
                                                {"ideal", InterfaceModel::ideal}};
+const Words<bool> kPolarizationTrackingWords = {{"tracked", true}, {"averaged", false}};
 const Words<ThicknessConvention> kConventionWords = {{"mean", ThicknessConvention::mean},
                                                      {"base", ThicknessConvention::base},
                                                      {"apex", ThicknessConvention::apex}};
@@ -809,7 +810,8 @@ void SceneReader::read_run(const toml::table* t, RunSettings& run) {
   static const toml::table empty;
   const toml::table& tb = t ? *t : empty;
   check_keys(tb, "run",
-             {"photons", "seed", "max_bounces", "randomize_lateral", "threads", "depth_histograms", "target_jg_error"});
+             {"photons", "seed", "max_bounces", "randomize_lateral", "threads", "depth_histograms", "target_jg_error",
+              "polarization"});
   if (const toml::node* n = tb.get("photons"))
     run.photons = static_cast<std::uint64_t>(integer(*n, "run.photons", 1, INT64_MAX, "an integer >= 1 (per wavelength)"));
   if (const toml::node* n = tb.get("seed"))
@@ -817,6 +819,7 @@ void SceneReader::read_run(const toml::table* t, RunSettings& run) {
   if (const toml::node* n = tb.get("max_bounces"))
     run.max_bounces = static_cast<int>(integer(*n, "run.max_bounces", 1, INT_MAX, fmt::format("an integer in [1, {}]", INT_MAX)));
   if (const toml::node* n = tb.get("randomize_lateral")) run.randomize_lateral = boolean(*n, "run.randomize_lateral");
+  run.track_polarization = word_or(tb, "run", "polarization", kPolarizationTrackingWords, true);
   if (const toml::node* n = tb.get("threads"))
     run.threads = static_cast<int>(
         integer(*n, "run.threads", 0, INT_MAX, fmt::format("an integer in [0, {}] (0 = all cores)", INT_MAX)));
@@ -1028,6 +1031,7 @@ std::string resolved_scene_toml(const Scene& s) {
   out += fmt::format("photons = {}\nseed = {}\nmax_bounces = {}\n", r.photons, r.seed, r.max_bounces);
   out += fmt::format("randomize_lateral = {}\nthreads = {}\ndepth_histograms = {}\n", r.randomize_lateral,
                      r.threads, r.depth_histograms);
+  out += fmt::format("polarization = \"{}\"\n", word_of(r.track_polarization, kPolarizationTrackingWords));
   if (r.target_jg_error > 0)
     out += fmt::format("target_jg_error = {}\n", toml_quote(format_current_mA_cm2(r.target_jg_error)));
   else

@@ -42,14 +42,28 @@ inline Field linear_field(const Eigen::Vector3d& s, const Eigen::Vector3d& p, do
   return (std::cos(psi) * s + std::sin(psi) * p).cast<std::complex<double>>();
 }
 
-/// E' = a_s s + a_p p, normalised; returns false when both vanish.
-inline bool rebuild_field(Field& E, std::complex<double> as, const Eigen::Vector3d& s,
-                          std::complex<double> ap, const Eigen::Vector3d& p) {
-  double norm2 = std::norm(as) + std::norm(ap);
-  if (!(norm2 > 1e-300)) return false;
-  double inv = 1.0 / std::sqrt(norm2);
-  E = (as * inv) * s.cast<std::complex<double>>() + (ap * inv) * p.cast<std::complex<double>>();
-  return true;
+/// The field on the s, p frame of the incident wave at a surface with normal
+/// m on the incident side: s = s_vector(d, m, E), p = d × s.
+struct SPComponents {
+  Eigen::Vector3d s, p;
+  std::complex<double> Es, Ep;
+};
+
+inline SPComponents decompose(const Field& E, const Eigen::Vector3d& d, const Eigen::Vector3d& m) {
+  SPComponents c;
+  c.s = s_vector(d, m, E);
+  c.p = d.cross(c.s);
+  c.Es = component(E, c.s);
+  c.Ep = component(E, c.p);
+  return c;
+}
+
+/// Unnormalised outgoing field a_s·E_s s + a_p·E_p (d_out × s), for amplitude
+/// coefficients (a_s, a_p) = (r_s, r_p) or (t_s, t_p) of fresnel.hpp.
+inline Field outgoing_field(const SPComponents& c, std::complex<double> as, std::complex<double> ap,
+                            const Eigen::Vector3d& d_out) {
+  const Eigen::Vector3d p_out = d_out.cross(c.s);
+  return (as * c.Es) * c.s.cast<std::complex<double>>() + (ap * c.Ep) * p_out.cast<std::complex<double>>();
 }
 
 }  // namespace lumtrap

@@ -171,6 +171,21 @@ Field random_linear_field(const Eigen::Vector3d& d, PhotonRng& rng) {
 
 enum class Outcome { continues, ended };
 
+// The field after a specular event with amplitudes (a_s, a_p), normalised;
+// a fresh random linear state when polarization is not carried or the
+// amplitudes vanish.
+void set_field(Photon& ph, const SPComponents& sp, cplx as, cplx ap, bool carry, PhotonRng& rng) {
+  if (carry) {
+    Field E = outgoing_field(sp, as, ap, ph.d);
+    const double n2 = E.squaredNorm();
+    if (n2 > 1e-300) {
+      ph.E = E / std::sqrt(n2);
+      return;
+    }
+  }
+  ph.E = random_linear_field(ph.d, rng);
+}
+
 // One interaction with a surface triangle. `front` tells which surface.
 Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph, PhotonRng& rng,
                  WavelengthTally& t) {
@@ -210,13 +225,15 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
     r = table.at(cos_i);
   }
 
-  const Eigen::Vector3d s = s_vector(ph.d, m, ph.E);
-  const Eigen::Vector3d p_in = ph.d.cross(s);
-  const std::complex<double> Es = component(ph.E, s), Ep = component(ph.E, p_in);
+  // s and p power fractions of the arriving light: from its field when the
+  // polarization is tracked, half and half for diffuse events and in the
+  // averaged mode (R = (R_s + R_p)/2 at every hit).
+  const SPComponents sp = decompose(ph.E, ph.d, m);
+  const bool carry = ctx.track_polarization && !diffuse;
   double ws = 0.5, wp = 0.5;
-  if (!diffuse) {
-    ws = std::norm(Es);
-    wp = std::norm(Ep);
+  if (carry) {
+    ws = std::norm(sp.Es);
+    wp = std::norm(sp.Ep);
     const double wsum = ws + wp;
     ws /= wsum;
     wp /= wsum;
@@ -232,7 +249,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
       ph.E = random_linear_field(ph.d, rng);
     } else {
       ph.d = (ph.d + 2.0 * cos_i * m).normalized();
-      if (!rebuild_field(ph.E, r.rs * Es, s, r.rp * Ep, ph.d.cross(s))) ph.E = random_linear_field(ph.d, rng);
+      set_field(ph, sp, r.rs, r.rp, carry, rng);
     }
     ph.p = hit + sm.eps * m;
     return Outcome::continues;
@@ -250,13 +267,13 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
       // T > 0 read from the table just beyond the critical angle (the
       // interpolation's edge): nothing can refract, so it reflects.
       ph.d = (ph.d + 2.0 * cos_i * m).normalized();
-      if (!rebuild_field(ph.E, r.rs * Es, s, r.rp * Ep, ph.d.cross(s))) ph.E = random_linear_field(ph.d, rng);
+      set_field(ph, sp, r.rs, r.rp, carry, rng);
       ph.p = hit + sm.eps * m;
       return Outcome::continues;
     } else {
       const double cos_t = std::sqrt(1.0 - sin2t);
       ph.d = (eta * ph.d + (eta * cos_i - cos_t) * m).normalized();
-      if (!rebuild_field(ph.E, r.ts * Es, s, r.tp * Ep, ph.d.cross(s))) ph.E = random_linear_field(ph.d, rng);
+      set_field(ph, sp, r.ts, r.tp, carry, rng);
     }
     if (to_outside) {
       ph.medium = front ? Medium::outside_front : Medium::outside_rear;
@@ -424,6 +441,7 @@ TraceContext make_trace_context(const Scene& scene, const WaferModel& model, con
   c.rear_scatter = {scene.rear.scattering, scene.rear.diffuse_fraction};
   c.max_bounces = scene.run.max_bounces;
   c.randomize_lateral = scene.run.randomize_lateral;
+  c.track_polarization = scene.run.track_polarization;
   c.seed = scene.run.seed;
   c.wavelength_index = wavelength_index;
   return c;

@@ -29,6 +29,7 @@ struct TraceContext {
   SurfaceScatter front_scatter, rear_scatter;
   int max_bounces = 10000;
   bool randomize_lateral = true;
+  bool track_polarization = true;
   std::uint64_t seed = 1, variant = 0, wavelength_index = 0;
 };
 

@@ -1,0 +1,76 @@
+// Illumination modes against the exact planar solver:
+// - diffuse (cosine-weighted, isotropic radiance) light on a planar wafer
+//   equals the planar solver's result integrated over the hemisphere with
+//   weight 2 cos θ sin θ dθ (Lambert's cosine law; common practice),
+//   integrated here with Gauss-Legendre quadrature in cos² θ;
+// - an azimuth other than 0 does not change a planar wafer.
+// |Δ| <= 4σ + 1e-4 per bin and wavelength.
+#include <fmt/format.h>
+
+#include "trace/planar_run.hpp"
+#include "trace_test_util.hpp"
+
+namespace lumtrap {
+namespace {
+
+const char* kBody = R"(
+[wafer]
+thickness = "120 um"
+[[front.films]]
+material = "sinx_pecvd_n209"
+thickness = "75 nm"
+[rear]
+medium = "al_rakic1995"
+[illumination]
+wavelengths = ["500 nm", "1000 nm", "1100 nm"]
+)";
+
+TEST(Illumination, DiffuseLightMatchesHemisphereIntegralOfPlanarSolver) {
+  const Scene diffuse = test::scene_from_text(std::string(kBody) + "kind = \"diffuse\"\n", "diffuse");
+  // ∫ f(θ) 2 cos θ sin θ dθ = ∫_0^1 f(u) du with u = cos² θ: 16-point Gauss-Legendre on [0, 1].
+  const double x[8] = {0.0950125098376374, 0.2816035507792589, 0.4580167776572274, 0.6178762444026438,
+                       0.7554044083550030, 0.8656312023878318, 0.9445750230732326, 0.9894009349916499};
+  const double w[8] = {0.1894506104550685, 0.1826034150449236, 0.1691565193950025, 0.1495959888165767,
+                       0.1246289712555339, 0.0951585116824928, 0.0622535239386479, 0.0271524594117541};
+  Results expected;
+  for (int k = 0; k < 16; ++k) {
+    const double u = 0.5 + 0.5 * (k < 8 ? -x[7 - k] : x[k - 8]);
+    const double wk = 0.5 * (k < 8 ? w[7 - k] : w[k - 8]);
+    Scene at = test::scene_from_text(kBody, "collimated");
+    at.illumination.polar_rad = std::acos(std::sqrt(u));
+    const Results r = planar_results(at);
+    if (k == 0) {
+      expected = r;
+      for (auto& b : expected.bins) std::fill(b.fraction.begin(), b.fraction.end(), 0.0);
+    }
+    for (std::size_t b = 0; b < r.bins.size(); ++b)
+      for (std::size_t i = 0; i < r.bins[b].fraction.size(); ++i)
+        expected.bins[b].fraction[i] += wk * r.bins[b].fraction[i];
+  }
+  auto run = prepare_run(diffuse);
+  const std::uint64_t N = 40000;
+  const Results traced = results_from_tallies(*run, test::trace_all(*run, N));
+  for (const auto& b : expected.bins)
+    for (std::size_t i = 0; i < b.fraction.size(); ++i) {
+      const double p = std::clamp(b.fraction[i], 0.0, 1.0);  // exact values may be -1e-17
+      EXPECT_NEAR(traced.bin(b.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4)
+          << b.name << " at " << traced.wavelength_nm[i] << " nm";
+    }
+}
+
+TEST(Illumination, AzimuthDoesNotMatterOnAPlanarWafer) {
+  Scene a = test::scene_from_text(std::string(kBody) + "polar_angle = \"50 deg\"\n", "az0");
+  const Results exact = planar_results(a);
+  a.illumination.azimuth_rad = 1.1;
+  auto run = prepare_run(a);
+  const std::uint64_t N = 20000;
+  const Results traced = results_from_tallies(*run, test::trace_all(*run, N));
+  for (const auto& b : exact.bins)
+    for (std::size_t i = 0; i < b.fraction.size(); ++i) {
+      const double p = std::clamp(b.fraction[i], 0.0, 1.0);  // exact values may be -1e-17
+      EXPECT_NEAR(traced.bin(b.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4) << b.name;
+    }
+}
+
+}  // namespace
+}  // namespace lumtrap
