@@ -6,6 +6,7 @@
 #include <iostream>
 #include <stdexcept>
 
+#include "io/scene_parser.hpp"
 #include "trace/checkpoint.hpp"
 
 namespace lumtrap::cli {
@@ -28,7 +29,11 @@ void refuse_existing(const std::filesystem::path& out, bool overwrite) {
                              " already exists; choose another --out or pass --overwrite to replace it");
 }
 
-std::string scene_hash(const std::string& text) { return text_hash(text); }
+std::string scene_hash(const Scene& scene) {
+  Scene s = scene;
+  s.run.threads = 0;
+  return text_hash(resolved_scene_toml(s));
+}
 
 void print_summary(const Results& r, const std::filesystem::path& out) {
   std::cout << fmt::format("{} under {}, {:g}-{:g} nm ({} wavelengths)\n", r.method, r.spectrum,

@@ -12,6 +12,7 @@
 #include "cli/output.hpp"
 #include "io/result_writer.hpp"
 #include "io/scene_parser.hpp"
+#include "io/scene_warnings.hpp"
 #include "trace/driver.hpp"
 
 namespace lumtrap::cli {
@@ -44,7 +45,9 @@ void add_run_command(CLI::App& app) {
     const auto out = result_folder(*o, scene, "run");
     refuse_existing(out, o->overwrite);
     const std::string resolved = resolved_scene_toml(scene);
-    const std::string hash = scene_hash(resolved);
+    const std::string hash = scene_hash(scene);
+    const auto warnings = scene_warnings(scene);
+    for (const auto& w : warnings) std::cerr << "lumtrap: warning: " << w << "\n";
 
     const int threads = scene.run.threads > 0 ? scene.run.threads : tbb::info::default_concurrency();
     tbb::global_control limit(tbb::global_control::max_allowed_parallelism, std::size_t(threads));
@@ -84,6 +87,7 @@ void add_run_command(CLI::App& app) {
     r.summary["photons_per_second"] = trace_s > 0 ? double(photons) / trace_s : 0.0;
     r.summary["interactions_per_second"] = trace_s > 0 ? double(r.summary["interactions"]) / trace_s : 0.0;
     if (scene.run.target_jg_error > 0) r.summary["target_J_G_sigma_mA_cm2"] = scene.run.target_jg_error;
+    r.summary["warnings"] = warnings;
 
     std::vector<OutputFile> files{{"spectral.csv", spectral_csv(r)},
                                   {"summary.json", summary_json(r)},

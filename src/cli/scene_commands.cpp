@@ -23,7 +23,7 @@ void add_planar_command(CLI::App& app) {
     refuse_existing(out, opts->overwrite);
     Results r = planar_results(scene);
     const std::string resolved = resolved_scene_toml(scene);
-    r.summary["scene_hash"] = scene_hash(resolved);
+    r.summary["scene_hash"] = scene_hash(scene);
     r.summary["tool_version"] = LUMTRAP_VERSION;
     write_result_folder(out, {{"spectral.csv", spectral_csv(r)}, {"summary.json", summary_json(r)},
                               {"scene.toml", resolved}},

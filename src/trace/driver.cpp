@@ -29,6 +29,7 @@ struct Driver {
   std::vector<WavelengthTally> tallies;
   std::vector<WavelengthOptics> optics;  // built lazily, one per wavelength
   std::chrono::steady_clock::time_point last_save = std::chrono::steady_clock::now();
+  std::uint64_t first = 0;  // index of the first photon of every wavelength (split runs)
 
   const WavelengthOptics& optics_of(std::size_t i) {
     if (optics.size() != tallies.size()) optics.resize(tallies.size());
@@ -46,7 +47,8 @@ struct Driver {
     last_save = t;
   }
 
-  // Brings wavelength i up to `target` photons in batches; false if stopped.
+  // Brings wavelength i up to `target` photons (counted from `first`) in
+  // batches; false if stopped.
   bool top_up(std::size_t i, std::uint64_t target, double done_before, double total_work) {
     while (tallies[i].photons < target) {
       if (stopped()) {
@@ -55,7 +57,7 @@ struct Driver {
       }
       const std::uint64_t begin = tallies[i].photons;
       const std::uint64_t end = std::min(target, begin + opt.batch);
-      tallies[i] += trace_wavelength(run, optics_of(i), i, begin, end);
+      tallies[i] += trace_wavelength(run, optics_of(i), i, first + begin, first + end);
       save(false);
       if (opt.progress && total_work > 0)
         opt.progress(std::min(1.0, (done_before + double(tallies[i].photons)) / total_work));
@@ -81,16 +83,27 @@ DriveResult drive_run(const PreparedRun& run, const DriveOptions& opt) {
   const std::uint64_t cap = run.scene.run.photons;
   const double target = run.scene.run.target_jg_error;
   DriveResult out;
+  const bool ranged = opt.first_photon != 0 || opt.last_photon != 0;
+  if (ranged && target > 0)
+    throw std::invalid_argument(
+        "a photon range (split run) needs a fixed photon count; this scene sets run.target_jg_error");
+  const std::uint64_t last = opt.last_photon ? opt.last_photon : cap;
+  if (ranged && (opt.first_photon > last || last > cap))
+    throw std::invalid_argument(fmt::format("photon range [{}, {}) does not lie within the {} photons per wavelength "
+                                            "of the scene (run.photons)",
+                                            opt.first_photon, last, cap));
+  d.first = opt.first_photon;
 
   if (target <= 0) {
-    const double total = double(cap) * double(nw);
+    const std::uint64_t count = last - opt.first_photon;  // photons per wavelength of this (part of the) run
+    const double total = double(count) * double(nw);
     double done_before = 0;
     for (std::size_t i = 0; i < nw; ++i) {
-      if (!d.top_up(i, cap, done_before, total)) {
+      if (!d.top_up(i, count, done_before, total)) {
         out.tallies = std::move(d.tallies);
         return out;
       }
-      done_before += double(cap);
+      done_before += double(count);
     }
   } else {
     // Pilot, then Neyman allocation rounds.

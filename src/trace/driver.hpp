@@ -23,6 +23,13 @@ struct DriveOptions {
   double checkpoint_seconds = 10.0;      ///< write the checkpoint at most this often (and when stopping)
   std::function<void(double done_fraction)> progress;  ///< called between batches (may be empty)
   const std::atomic<bool>* stop = nullptr;  ///< set asynchronously to stop after the current batch
+  /// Photon range of every wavelength, for a run split over processes or
+  /// cluster jobs (fixed mode only): photons [first_photon, last_photon),
+  /// last_photon = 0 meaning run.photons. The tallies of the parts of a
+  /// split add up exactly to those of the whole run (counter-based random
+  /// numbers keyed by the photon index).
+  std::uint64_t first_photon = 0;
+  std::uint64_t last_photon = 0;
 };
 
 struct DriveResult {
@@ -31,7 +38,10 @@ struct DriveResult {
   double jg_sigma_mA_cm2 = 0;
 };
 
-/// Fixed mode (run.target_jg_error == 0): run.photons per wavelength.
+/// Fixed mode (run.target_jg_error == 0): run.photons per wavelength (or the
+/// range [first_photon, last_photon) of each wavelength; throws
+/// std::invalid_argument for a range beyond run.photons, or any range in
+/// precision mode).
 /// Precision mode (> 0): a pilot of min(photons, 2000) per wavelength, then
 /// Neyman allocation (N_i ∝ w_i sqrt(p_i (1 - p_i)), the allocation that
 /// minimises Var(J_G) for a given total; W. G. Cochran, Sampling Techniques,
