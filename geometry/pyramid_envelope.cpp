@@ -194,7 +194,7 @@ void mesh_facets(const Context& cx, std::size_t begin, std::size_t end, std::siz
   std::vector<std::uint32_t> stamp(inst.size(), 0), cands;
   std::uint32_t stamp_now = 0;
   FacetHorizon horizon[4];
-  std::vector<Point2> outline, gpts;
+  std::vector<Point2> outlines[4], gpts;
 
   for (std::size_t ii = begin; ii < end; ++ii) {
     const Instance& I = inst[ii];
@@ -252,34 +252,53 @@ void mesh_facets(const Context& cx, std::size_t begin, std::size_t end, std::siz
     const HalfPlane tile[4] = {{1, 0, I.cx}, {-1, 0, P - I.cx}, {0, 1, I.cy}, {0, -1, P - I.cy}};
     std::uint32_t apex = UINT32_MAX;
     // Diagonal rays from the apex toward the base corners (1,-1), (1,1),
-    // (-1,1), (-1,-1): facet d runs from ray kStart[d] to ray kEnd[d], and two
-    // neighbouring facets share the outline point on their common ray (the
-    // facet planes meet there at the same height t·(a - u)).
+    // (-1,1), (-1,-1): facet d runs from ray kStart[d] to ray kEnd[d]. Two
+    // neighbouring facets share their outline point on the common ray when
+    // they agree on it (the planes meet there at the same height t·(a - u));
+    // with coincident planes of a neighbour they may not (the ray then lies
+    // where the neighbour and this pyramid are equally high), and rounding of
+    // the stored point may put it off the ray.
     constexpr int kStart[4] = {0, 2, 1, 3}, kEnd[4] = {1, 3, 2, 0};
+    for (int d = 0; d < 4; ++d)
+      if (!buried[d]) horizon[d].outline(outlines[d]);
     std::uint32_t diag[4] = {UINT32_MAX, UINT32_MAX, UINT32_MAX, UINT32_MAX};
+    double diag_u[4] = {-1, -1, -1, -1};
+    const double same_u = 1e-12 * I.a;
     for (int d : {0, 2, 1, 3}) {
       if (buried[d]) continue;
       const int nx = kNx[d], ny = kNy[d], mx = -ny, my = nx;
-      horizon[d].outline(outline);
+      const std::vector<Point2>& outline = outlines[d];
       ++out.facets;
       if (out.visible.empty() || out.visible.back() != I.pid) out.visible.push_back(I.pid);
       if (inside) {
-        // Fan from the apex; z from the facet plane, t·(a - u).
+        // Fan from the apex; z from the facet plane at the stored x, y (so the
+        // three corners of a thin triangle still lie in the plane to rounding).
         if (apex == UINT32_MAX) apex = writer.vertex(I.cx, I.cy, t * I.a);
+        const Plane pl{I.cx, I.cy, I.a, nx, ny, false};
         auto point = [&](const Point2& q) {
-          return writer.vertex(I.cx + (q.x * nx + q.y * mx), I.cy + (q.x * ny + q.y * my), t * (I.a - q.x));
+          const Point2 g{I.cx + (q.x * nx + q.y * mx), I.cy + (q.x * ny + q.y * my)};
+          return writer.vertex(g.x, g.y, writer.z(pl, g));
         };
-        std::uint32_t& first = diag[kStart[d]];
-        if (first == UINT32_MAX) first = point(outline.front());
-        std::uint32_t prev = first;
+        auto shared = [&](int ray, const Point2& q) {
+          const std::uint32_t k = diag[ray];
+          if (k != UINT32_MAX && std::abs(diag_u[ray] - q.x) <= same_u) return k;
+          const std::uint32_t v = point(q);
+          // Share it only if it lies exactly on the diagonal as stored, so
+          // that it is in both facet planes to rounding of z.
+          const auto& g = out.mesh.vertices[v];
+          if (std::abs(g.x() - I.cx) == std::abs(g.y() - I.cy)) {
+            diag[ray] = v;
+            diag_u[ray] = q.x;
+          }
+          return v;
+        };
+        std::uint32_t prev = shared(kStart[d], outline.front());
         for (std::size_t j = 1; j + 1 < outline.size(); ++j) {
           const std::uint32_t cur = point(outline[j]);
           writer.triangle(apex, prev, cur);
           prev = cur;
         }
-        std::uint32_t& last = diag[kEnd[d]];
-        if (last == UINT32_MAX) last = point(outline.back());
-        writer.triangle(apex, prev, last);
+        writer.triangle(apex, prev, shared(kEnd[d], outline.back()));
       } else {
         // Fan triangles clipped to the tile, relative to the apex.
         const Plane pl{I.cx, I.cy, I.a, nx, ny, false};

@@ -10,6 +10,7 @@ void add_run_command(CLI::App& app);       // lumtrap run SCENE
 void add_planar_command(CLI::App& app);    // lumtrap planar SCENE
 void add_check_command(CLI::App& app);     // lumtrap check SCENE
 void add_materials_command(CLI::App& app); // lumtrap materials
+void add_sweep_command(CLI::App& app);     // lumtrap sweep plan|task|local|merge|status
 
 /// Thrown by commands to end with a given exit code after a message.
 struct ExitCode {

@@ -564,8 +564,13 @@ Sweep expand_sweep(const toml::table& root, const fs::path& file) {
     out.variants.push_back(std::move(var));
   }
   if (invalid) {
-    std::string msg = fmt::format("{}: {} of {} sweep variant{} invalid (nothing was run):", file.string(), invalid,
-                                  total, invalid == 1 ? " is" : "s are");
+    // Values set by the sweep carry no source position in the scene
+    // reader's messages: name where each swept key is written instead.
+    std::string keys;
+    for (const Axis& a : axes)
+      for (std::size_t k = 0; k < a.keys.size(); ++k) keys += (keys.empty() ? "" : ", ") + a.keys[k] + " at " + a.wheres[k];
+    std::string msg = fmt::format("{}: {} of {} sweep variant{} invalid (nothing was run; swept keys: {}):",
+                                  file.string(), invalid, total, invalid == 1 ? " is" : "s are", keys);
     for (const auto& e : errors) msg += "\n  " + e;
     if (invalid > errors.size()) msg += fmt::format("\n  ... and {} more", invalid - errors.size());
     throw SweepError(msg);
@@ -614,11 +619,17 @@ ParameterTable parameter_table(const Sweep& sweep) {
 std::string variants_csv(const Sweep& sweep) {
   const ParameterTable t = parameter_table(sweep);
   std::string out = "id";
-  for (const auto& h : t.headers) out += "," + csv_field(h);
+  for (const auto& h : t.headers) {
+    out += ',';
+    out += csv_field(h);
+  }
   out += "\n";
   for (std::size_t v = 0; v < sweep.variants.size(); ++v) {
     out += sweep.variants[v].id;
-    for (const auto& c : t.rows[v]) out += "," + csv_field(c);
+    for (const auto& c : t.rows[v]) {
+      out += ',';
+      out += csv_field(c);
+    }
     out += "\n";
   }
   return out;
