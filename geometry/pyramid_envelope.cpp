@@ -86,15 +86,16 @@ class MeshWriter {
     return static_cast<std::uint32_t>(m_.vertices.size() - 1);
   }
 
-  // Adds triangle (i, j, k) if it is counter-clockwise and thicker than the
-  // cut tolerance (twice its area over its longest edge).
-  void triangle(std::uint32_t i, std::uint32_t j, std::uint32_t k) {
+  // Adds triangle (i, j, k) if it is counter-clockwise and its height over
+  // its longest edge is at least `thin` (µm; default: the cut tolerance).
+  void triangle(std::uint32_t i, std::uint32_t j, std::uint32_t k) { triangle(i, j, k, thin_); }
+  void triangle(std::uint32_t i, std::uint32_t j, std::uint32_t k, double thin) {
     const auto &a = m_.vertices[i], &b = m_.vertices[j], &c = m_.vertices[k];
     const double twice = (b.x() - a.x()) * (c.y() - a.y()) - (b.y() - a.y()) * (c.x() - a.x());
     if (!(twice > 0)) return;
     const double e2 = std::max({(b - a).head<2>().squaredNorm(), (c - b).head<2>().squaredNorm(),
                                 (a - c).head<2>().squaredNorm()});
-    if (twice * twice >= thin_ * thin_ * e2) m_.triangles.push_back({i, j, k});
+    if (twice * twice >= thin * thin * e2) m_.triangles.push_back({i, j, k});
   }
 
   // Fans a convex polygon (global coordinates) from its first vertex, or from
@@ -140,6 +141,7 @@ struct Part {
 
 struct Context {
   double P = 0, tan_facet = 0, eps = 0, eps_tile = 0;
+  double sliver = 0;  // fan triangles from an apex thinner than this are dropped, µm
   TileGrid grid;
   std::vector<Instance> inst;
   BinIndex index;  // instances per bin of grid
@@ -295,10 +297,10 @@ void mesh_facets(const Context& cx, std::size_t begin, std::size_t end, std::siz
         std::uint32_t prev = shared(kStart[d], outline.front());
         for (std::size_t j = 1; j + 1 < outline.size(); ++j) {
           const std::uint32_t cur = point(outline[j]);
-          writer.triangle(apex, prev, cur);
+          writer.triangle(apex, prev, cur, cx.sliver);
           prev = cur;
         }
-        writer.triangle(apex, prev, shared(kEnd[d], outline.back()));
+        writer.triangle(apex, prev, shared(kEnd[d], outline.back()), cx.sliver);
       } else {
         // Fan triangles clipped to the tile, relative to the apex.
         const Plane pl{I.cx, I.cy, I.a, nx, ny, false};
@@ -419,6 +421,11 @@ TileMesh pyramid_envelope_mesh(const RandomPyramidLayout& layout, double facet_d
   // and snapping tolerance for tile coordinates (up to the period), µm.
   cx.eps = 1e-12 * std::max(1.0, mean_base);
   cx.eps_tile = 2.0 * cx.eps + 1e-14 * P;
+  // A fan triangle thinner than 1e-7 µm (per µm of pyramid size) would have a
+  // normal that double rounding of its corners tilts by more than ~1e-9 rad;
+  // dropping it leaves a crack narrower than 1 Å, far below anything a ray
+  // tracer in single precision resolves.
+  cx.sliver = 1e-7 * std::max(1.0, mean_base);
   cx.grid = TileGrid(P, pyr.empty() ? P : mean_base, 2048);
   const TileGrid& grid = cx.grid;
   const std::size_t nbins = static_cast<std::size_t>(grid.n) * grid.n;

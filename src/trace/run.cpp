@@ -7,6 +7,7 @@
 #include <cmath>
 #include <fmt/format.h>
 
+#include "io/exr_image.hpp"
 #include "trace/transport.hpp"
 
 namespace lumtrap {
@@ -164,29 +165,38 @@ std::vector<OutputFile> trace_extra_files(const PreparedRun& run, const std::vec
     }
     files.push_back({"generation.csv", s});
   }
-  // Angular distributions, spectrum weighted, as currents per bin.
-  auto angle_file = [&](const char* title, auto member) {
+  // Angular distributions, spectrum weighted, as currents per bin: a CSV
+  // and an EXR map (rows: polar bins, columns: azimuth bins).
+  auto angle_map = [&](auto member) {
+    std::vector<float> map(std::size_t(L.polar_bins) * L.azimuth_bins);
+    for (std::size_t b = 0; b < map.size(); ++b) {
+      double flux = 0;
+      for (std::size_t i = 0; i < tallies.size(); ++i)
+        if (tallies[i].photons) flux += w[i] * double((tallies[i].*member)[b]) / double(tallies[i].photons);
+      map[b] = float(current_mA_per_cm2(flux));
+    }
+    return map;
+  };
+  auto angle_csv = [&](const char* title, const std::vector<float>& map) {
     std::string s = fmt::format("# {}; photon current in mA/cm2 per bin, spectrum {}\n", title, run.spectrum.name);
     s += "polar_lo_deg,polar_hi_deg,azimuth_lo_deg,azimuth_hi_deg,current_mA_cm2\n";
     const double dp = 90.0 / L.polar_bins, da = 360.0 / L.azimuth_bins;
     for (int p = 0; p < L.polar_bins; ++p)
-      for (int a = 0; a < L.azimuth_bins; ++a) {
-        double flux = 0;
-        for (std::size_t i = 0; i < tallies.size(); ++i)
-          if (tallies[i].photons)
-            flux += w[i] * double((tallies[i].*member)[std::size_t(p) * L.azimuth_bins + a]) /
-                    double(tallies[i].photons);
+      for (int a = 0; a < L.azimuth_bins; ++a)
         s += fmt::format("{:g},{:g},{:g},{:g},{:.6e}\n", p * dp, (p + 1) * dp, a * da, (a + 1) * da,
-                         current_mA_per_cm2(flux));
-      }
+                         map[std::size_t(p) * L.azimuth_bins + a]);
     return s;
   };
-  files.push_back({"escape_angles.csv", angle_file("polar angle (from the wafer normal) and azimuth of light "
-                                                   "escaping through the front after entering the silicon",
-                                                   &WavelengthTally::escape_angle)});
-  files.push_back({"rear_angles.csv", angle_file("polar angle (from the downward wafer normal) and azimuth of light "
-                                                 "arriving at the rear zone from the bulk",
-                                                 &WavelengthTally::rear_angle)});
+  const auto escape = angle_map(&WavelengthTally::escape_angle);
+  const auto rear = angle_map(&WavelengthTally::rear_angle);
+  files.push_back({"escape_angles.csv", angle_csv("polar angle (from the wafer normal) and azimuth of light escaping "
+                                                  "through the front after entering the silicon",
+                                                  escape)});
+  files.push_back({"escape_angles.exr", exr_image(L.azimuth_bins, L.polar_bins, escape)});
+  files.push_back({"rear_angles.csv", angle_csv("polar angle (from the downward wafer normal) and azimuth of light "
+                                                "arriving at the rear zone from the bulk",
+                                                rear)});
+  files.push_back({"rear_angles.exr", exr_image(L.azimuth_bins, L.polar_bins, rear)});
   {
     std::string s = "# photons absorbed in the silicon by the number of bulk crossings before absorption\n";
     s += "# (last row: that many or more); spectrum-weighted photon current in mA/cm2\n";

@@ -7,6 +7,8 @@
 // |Δ| <= 4σ + 1e-4 per bin and wavelength.
 #include <fmt/format.h>
 
+#include <fstream>
+
 #include "trace/planar_run.hpp"
 #include "trace_test_util.hpp"
 
@@ -70,6 +72,30 @@ TEST(Illumination, AzimuthDoesNotMatterOnAPlanarWafer) {
       const double p = std::clamp(b.fraction[i], 0.0, 1.0);  // exact values may be -1e-17
       EXPECT_NEAR(traced.bin(b.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4) << b.name;
     }
+}
+
+TEST(Illumination, UserSpectrumFileGivesTheSameCurrentsAsTheSameBuiltinData) {
+  // A user spectrum file holding the AM1.5G column of ASTM G173-03 (copied
+  // from materials/astm_g173_03.csv) must reproduce the built-in AM1.5G.
+  const auto dir = test::temp_dir();
+  {
+    std::ifstream in(std::string(LUMTRAP_SOURCE_DIR) + "/materials/astm_g173_03.csv");
+    std::ofstream out(dir / "my_spectrum.csv");
+    out << "# AM1.5G column of ASTM G173-03, as a user file\nwavelength_nm,irradiance_W_m2_nm\n";
+    std::string line;
+    while (std::getline(in, line)) {
+      if (line.empty() || line[0] == '#' || line[0] == 'w') continue;
+      const auto c1 = line.find(','), c2 = line.find(',', c1 + 1), c3 = line.find(',', c2 + 1);
+      out << line.substr(0, c1) << "," << line.substr(c2 + 1, c3 - c2 - 1) << "\n";
+    }
+  }
+  const Results builtin = planar_results(test::scene_from_text(kBody, "builtin"));
+  const Results user = planar_results(
+      test::scene_from_text(std::string(kBody) + "spectrum = \"my_spectrum.csv\"\n", "user"));
+  ASSERT_EQ(builtin.bins.size(), user.bins.size());
+  for (std::size_t b = 0; b < builtin.bins.size(); ++b)
+    EXPECT_NEAR(user.bins[b].current_mA_cm2, builtin.bins[b].current_mA_cm2, 1e-12) << builtin.bins[b].name;
+  EXPECT_NEAR(user.J_max_mA_cm2, builtin.J_max_mA_cm2, 1e-12);
 }
 
 }  // namespace
