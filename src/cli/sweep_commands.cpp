@@ -163,6 +163,7 @@ UnitTotals run_units(const SweepFolder& f, const std::vector<std::size_t>& units
       u.progress = [progress, k, n = units.size()](double x) { progress->update((double(k) + x) / double(n)); };
     try {
       const UnitReport r = run_work_unit(f, units[k], u);
+      if (progress && ::isatty(2)) std::cerr << "\r\x1b[K" << std::flush;  // clear the progress line first
       std::cout << r.line << std::endl;
       if (r.outcome == UnitReport::finished) ++totals.finished;
       if (r.outcome == UnitReport::skipped) ++totals.skipped;

@@ -14,6 +14,7 @@
 #include <memory>
 #include <sstream>
 #include <stdexcept>
+#include <tuple>
 
 #include "io/result_writer.hpp"
 #include "io/scene_parser.hpp"
@@ -441,8 +442,15 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
     return rep;
   }
 
+  // The start mark tells `status` that the unit runs; it goes on every way
+  // out of here (finished, interrupted, error), and stays only when the
+  // process is killed.
   fs::create_directories(unit_started(f, u).parent_path());
   write_file_atomically(unit_started(f, u), fmt::format("host {} pid {}\n", host_name(), ::getpid()));
+  struct StartMark {
+    fs::path path;
+    ~StartMark() { remove_quietly(path); }
+  } mark{unit_started(f, u)};
   const LoadedVariant lv = load_variant(f, u.variant);
 
   DriveOptions d;
@@ -458,7 +466,6 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
   DriveResult res = drive_run(*lv.run, d);
   const double trace_seconds = seconds_since(t0);
   if (!res.complete) {
-    remove_quietly(unit_started(f, u));
     rep.outcome = UnitReport::interrupted;
     rep.line = fmt::format("{}: interrupted; the photons traced so far are kept in {}", name, d.checkpoint.string());
     return rep;
@@ -479,7 +486,6 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
     Results r;
     write_result(f, u.variant, result_files(f, u.variant, lv, res.tallies, facts, &r));
     remove_quietly(d.checkpoint);
-    remove_quietly(unit_started(f, u));
     rep.line = fmt::format("{}: done{}, {} ({:.1f} s, {} photons, {})", name, resumed ? " (resumed)" : "", jg_text(r),
                            trace_seconds, photons, threads_text());
     return rep;
@@ -487,7 +493,6 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
   save_tally_set(part_tallies(f, u.variant, u.part), TallySet{d.scene_hash, LUMTRAP_VERSION, res.tallies});
   write_file_atomically(part_facts(f, u.variant, u.part), facts.dump(2) + "\n");
   remove_quietly(d.checkpoint);
-  remove_quietly(unit_started(f, u));
   rep.line = fmt::format("{}: done{} (photons {} to {} of {} per wavelength, {:.1f} s, {})", name,
                          resumed ? " (resumed)" : "", d.first_photon, d.last_photon, var.photons, trace_seconds,
                          threads_text());

@@ -112,7 +112,12 @@ if [ "$n_done" -ne 8 ]; then
   fail "$n_done of 8 array tasks COMPLETED"
 fi
 grep -q 'JobState=COMPLETED' merge_state.txt || { cat merge_state.txt >&2; cat S/logs/merge.log >&2; fail "merge job did not complete"; }
-grep -q "Dependency=\|afterok" merge_state.txt || true
+# afterok: the merge started only after the last array task had ended (ISO times compare as text).
+last_end=$(grep -o 'EndTime=[0-9T:-]*' array_state.txt | cut -d= -f2 | sort | tail -1)
+merge_start=$(grep -o 'StartTime=[0-9T:-]*' merge_state.txt | head -1 | cut -d= -f2)
+[ -n "$last_end" ] && [ -n "$merge_start" ] && [[ ! "$merge_start" < "$last_end" ]] ||
+  fail "merge job started at '$merge_start', before the last array task ended ('$last_end')"
+echo "last array task ended $last_end, merge job started $merge_start"
 
 # --- the results ------------------------------------------------------------------
 for t in 0 1 2 3 4 5 6 7; do

@@ -235,6 +235,10 @@ grep -q 'variant v0001 (wafer.thickness = "120 um", front.films\[0\].thickness =
 "$BIN" sweep plan sweep.toml --out A --split-photons 2 > replan.txt 2>&1 || { cat replan.txt; fail "re-plan of the same sweep refused"; }
 "$BIN" sweep plan other.toml --out A > replan2.txt 2>&1 && fail "plan of another sweep into A accepted"
 grep -q 'holds another sweep' replan2.txt || { cat replan2.txt; fail "re-plan refusal message"; }
-ok "invalid variant rejected by plan, naming it; foreign re-plan refused"
+sed 's/^photons = 4000$/photons = 4000\ntarget_jg_error = "0.5 mA\/cm2"/' sweep.toml > precision.toml
+grep -q target_jg_error precision.toml || fail "could not write precision.toml"
+"$BIN" sweep plan precision.toml --out P --split-photons 2 > plan_p.txt 2>&1 && fail "plan split a precision-mode sweep"
+grep -q 'variant v0000 sets run.target_jg_error' plan_p.txt || { cat plan_p.txt; fail "split refusal message"; }
+ok "invalid variant rejected by plan, naming it; foreign re-plan refused; precision mode not split"
 
 echo "PASS: test_sweep_local ($((SECONDS - START)) s)"

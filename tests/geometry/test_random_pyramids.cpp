@@ -153,6 +153,32 @@ TEST(RandomPyramids, LognormalSizesAndOtherFacetAngle) {
   check_envelope_mesh(m, layout, spec.facet_deg, 250);
 }
 
+TEST(RandomPyramids, NormalSizesHalfCovered) {
+  RandomPyramidsSpec spec;
+  spec.distribution = SizeDistribution::normal;
+  spec.size_a_um = 2.0;
+  spec.size_b_um = 0.7;
+  spec.flat_fraction = 0.5;
+  spec.tile_um = 40.0;
+  spec.seed = 8;
+  const RandomPyramidLayout layout = random_pyramids_layout(spec);
+  const TileMesh m = random_pyramids_tile(spec);
+  EXPECT_LE(mesh_flat_fraction(m), 0.5);
+  EXPECT_GT(mesh_flat_fraction(m), 0.45);
+  check_envelope_mesh(m, layout, spec.facet_deg, 250);
+}
+
+TEST(RandomPyramids, FlatFractionOneIsAFlatTile) {
+  const RandomPyramidsSpec spec = uniform_spec(20.0, 1.0, 1);
+  RandomPyramidsReport rep;
+  const TileMesh m = random_pyramids_tile(spec, &rep);
+  EXPECT_EQ(rep.pyramids_placed, 0u);
+  EXPECT_NEAR(rep.flat_fraction, 1.0, 1e-14);
+  EXPECT_EQ(m.max_z(), 0.0);
+  EXPECT_NEAR(m.projected_area(), 400.0, 1e-9);
+  for (int axis = 0; axis < 2; ++axis) EXPECT_TRUE(testing::check_seam(m, axis, 0.0).twins_ok);
+}
+
 TEST(RandomPyramids, SmallTileWithPyramidsWiderThanTheTile) {
   // Pyramids overlap their own periodic images: exact ties of coincident
   // facet planes between a pyramid and its image shifted along the facet.
@@ -216,9 +242,9 @@ TEST(RandomPyramids, SameSeedSameMeshOtherSeedOtherMesh) {
 }
 
 TEST(RandomPyramids, FirstDrawsAreFixedByTheSeed) {
-  // std::mt19937_64 output is fixed by the C++ standard ([rand.predef]: the
-  // 10000th output of the default-seeded engine is 9981545732273789042), so
-  // the layout is the same with every standard library.
+  // std::mt19937_64 output is fixed by the C++ standard (ISO/IEC 14882,
+  // [rand.predef]: the 10000th output of the default-seeded engine is
+  // 9981545732273789042), so the layout is the same with every standard library.
   std::mt19937_64 e;
   e.discard(9999);
   EXPECT_EQ(e(), 9981545732273789042ull);
@@ -304,9 +330,11 @@ TEST(RandomPyramids, SizesBelowTheMinimumAreRedrawn) {
   for (double& x : v) x = sampler.draw(rng);
   const Moments m = moments(v);
   EXPECT_GE(m.min, 0.5);
-  // mean of N(1, 1) truncated below 0.5: 1 + φ(-0.5)/(1 - Φ(-0.5)) = 1.5092
-  // (truncated normal mean, common practice)
-  EXPECT_NEAR(m.mean, 1.0 + 0.3520653 / 0.6914625, 4 * m.se_mean);
+  // mean of N(1, 1) truncated below 0.5: 1 + φ(-0.5)/(1 - Φ(-0.5))
+  // (mean of a truncated normal distribution, common practice)
+  const double phi = std::exp(-0.125) / std::sqrt(2 * std::numbers::pi);
+  const double upper = 0.5 * std::erfc(-0.5 / std::sqrt(2.0));
+  EXPECT_NEAR(m.mean, 1.0 + phi / upper, 4 * m.se_mean);
 }
 
 TEST(RandomPyramids, BadSpecsAreRejected) {
