@@ -13,6 +13,7 @@
 #include <utility>
 #include <vector>
 
+#include "io/toml_text.hpp"
 #include "io/units.hpp"
 #include "optics/material.hpp"
 #include "optics/spectrum.hpp"
@@ -91,69 +92,8 @@ std::string join(const std::vector<std::string_view>& items, std::string_view se
 // ---------------------------------------------------------------------------
 // Showing values in messages and writing them as TOML.
 
-/// A TOML basic string: "..." with the escapes TOML requires.
-std::string toml_quote(std::string_view s) {
-  std::string out = "\"";
-  for (char c : s) {
-    switch (c) {
-      case '"': out += "\\\""; break;
-      case '\\': out += "\\\\"; break;
-      case '\n': out += "\\n"; break;
-      case '\t': out += "\\t"; break;
-      case '\r': out += "\\r"; break;
-      case '\b': out += "\\b"; break;
-      case '\f': out += "\\f"; break;
-      default:
-        if (static_cast<unsigned char>(c) < 0x20 || c == 0x7F)
-          out += fmt::format("\\u{:04X}", static_cast<unsigned>(static_cast<unsigned char>(c)));
-        else
-          out += c;
-    }
-  }
-  return out + "\"";
-}
-
-/// A TOML float or integer as text (inf and nan are valid TOML floats).
-std::string show_float(double x) {
-  if (std::isnan(x)) return "nan";
-  if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
-  std::string s = format_number(x);
-  if (s.find_first_of(".eE") == std::string::npos) s += ".0";
-  return s;
-}
-
 /// The value of a node as it would read in TOML, for messages.
-std::string show(const toml::node& n) {
-  if (auto* s = n.as_string()) return toml_quote(s->get());
-  if (auto* i = n.as_integer()) return std::to_string(i->get());
-  if (auto* f = n.as_floating_point()) return show_float(f->get());
-  if (auto* b = n.as_boolean()) return b->get() ? "true" : "false";
-  if (auto* a = n.as_array()) {
-    std::string s = "[";
-    for (std::size_t i = 0; i < a->size(); ++i) {
-      if (i == 6) {
-        s += ", ...";
-        break;
-      }
-      s += (i ? ", " : "") + show(*a->get(i));
-    }
-    return s + "]";
-  }
-  if (auto* t = n.as_table()) {
-    std::string s = "{";
-    bool first = true;
-    for (auto&& [k, v] : *t) {
-      s += (first ? " " : ", ") + std::string(k.str()) + " = " + show(v);
-      first = false;
-    }
-    return s + (first ? "}" : " }");
-  }
-  std::ostringstream os;  // dates and times
-  if (auto* d = n.as_date()) os << *d;
-  else if (auto* tm = n.as_time()) os << *tm;
-  else if (auto* dt = n.as_date_time()) os << *dt;
-  return os.str();
-}
+std::string show(const toml::node& n) { return toml_value_text(n, 6); }
 
 std::string_view type_name(const toml::node& n) {
   if (n.is_string()) return "a string";
@@ -181,18 +121,7 @@ std::size_t edit_distance(std::string_view a, std::string_view b) {
   return row[b.size()];
 }
 
-bool is_plain_id(std::string_view s) {
-  return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) {
-    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '_' ||
-           c == '-';
-  });
-}
-
-std::string trimmed(std::string_view s) {
-  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
-  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
-  return std::string(s);
-}
+std::string trimmed(std::string_view s) { return std::string(trim_blanks(s)); }
 
 std::string upper(std::string s) {
   for (char& c : s)
@@ -435,7 +364,7 @@ MaterialRef SceneReader::material_from_text(const std::string& raw, const std::s
     fail_at(parent.source(), key, fmt::format("default material \"{}\": {}", text, e.what()));
   }
   std::error_code ec;
-  if (text == "air" || (is_plain_id(text) && fs::is_regular_file(materials_dir() / (text + ".csv"), ec))) {
+  if (text == "air" || (is_bare_key(text) && fs::is_regular_file(materials_dir() / (text + ".csv"), ec))) {
     ref.id_or_path = text;  // "air" (built-in n = 1, k = 0) or a shipped table: keep the id
   } else {
     fs::path p(text);
@@ -902,7 +831,7 @@ Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ig
 // Writing.
 
 std::string material_toml(const MaterialRef& m) {
-  if (m.constant) return fmt::format("{{ n = {}, k = {} }}", show_float(m.n), show_float(m.k));
+  if (m.constant) return fmt::format("{{ n = {}, k = {} }}", toml_float_text(m.n), toml_float_text(m.k));
   return toml_quote(m.id_or_path);
 }
 
@@ -941,7 +870,7 @@ void write_surface(std::string& out, const Surface& s, const std::string& name, 
   out += fmt::format("scattering = \"{}\"\n", word_of(s.scattering, kScatteringWords));
   out += fmt::format("interface = \"{}\"\n", word_of(s.interface_model, kInterfaceWords));
   if (s.scattering == SurfaceScattering::mixed)
-    out += fmt::format("diffuse_fraction = {}\n", show_float(s.diffuse_fraction));
+    out += fmt::format("diffuse_fraction = {}\n", toml_float_text(s.diffuse_fraction));
   if (medium) out += fmt::format("medium = {}\n", perfect_mirror ? "\"perfect_mirror\"" : material_toml(*medium));
 
   const Texture& t = s.texture;
@@ -968,7 +897,7 @@ void write_surface(std::string& out, const Surface& s, const std::string& name, 
     }
     out += fmt::format("min_size = {}\n", len(r.min_size_um));
     out += fmt::format("facet_angle = {}\n", toml_quote(format_angle_deg(r.facet_deg)));
-    out += fmt::format("flat_fraction = {}\n", show_float(r.flat_fraction));
+    out += fmt::format("flat_fraction = {}\n", toml_float_text(r.flat_fraction));
     out += fmt::format("tile = {}\n", len(r.tile_um));
     out += fmt::format("seed = {}\n", r.seed);
   }

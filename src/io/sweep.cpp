@@ -15,6 +15,7 @@
 #include <utility>
 
 #include "io/scene_parser.hpp"
+#include "io/toml_text.hpp"
 #include "io/units.hpp"
 
 namespace lumtrap {
@@ -35,81 +36,15 @@ const char* const kRangeAllowed =
     "(length: nm, um, µm, mm; angle: deg, °, rad; current density: mA/cm2, A/m2, ...) or all plain numbers, "
     "e.g. \"60 nm .. 90 nm step 5 nm\"";
 
-std::string_view trim(std::string_view s) {
-  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
-  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
-  return s;
-}
-
 // ---------------------------------------------------------------------------
 // Values as TOML text and as JSON.
-
-std::string quote(std::string_view s) {
-  std::string out = "\"";
-  for (char c : s) {
-    switch (c) {
-      case '"': out += "\\\""; break;
-      case '\\': out += "\\\\"; break;
-      case '\n': out += "\\n"; break;
-      case '\t': out += "\\t"; break;
-      case '\r': out += "\\r"; break;
-      default:
-        if (static_cast<unsigned char>(c) < 0x20 || c == 0x7F)
-          out += fmt::format("\\u{:04X}", static_cast<unsigned>(static_cast<unsigned char>(c)));
-        else
-          out += c;
-    }
-  }
-  return out + "\"";
-}
-
-bool is_bare_key(std::string_view s) {
-  return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) {
-    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '_' || c == '-';
-  });
-}
-
-std::string float_text(double x) {
-  if (std::isnan(x)) return "nan";
-  if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
-  std::string s = format_number(x);
-  if (s.find_first_of(".eE") == std::string::npos) s += ".0";
-  return s;
-}
-
-std::string toml_text(const toml::node& n) {
-  if (auto* s = n.as_string()) return quote(s->get());
-  if (auto* i = n.as_integer()) return std::to_string(i->get());
-  if (auto* f = n.as_floating_point()) return float_text(f->get());
-  if (auto* b = n.as_boolean()) return b->get() ? "true" : "false";
-  if (auto* a = n.as_array()) {
-    std::string s = "[";
-    for (std::size_t i = 0; i < a->size(); ++i) s += (i ? ", " : "") + toml_text(*a->get(i));
-    return s + "]";
-  }
-  if (auto* t = n.as_table()) {
-    std::string s = "{";
-    bool first = true;
-    for (auto&& [k, v] : *t) {
-      const std::string key(k.str());
-      s += (first ? " " : ", ") + (is_bare_key(key) ? key : quote(key)) + " = " + toml_text(v);
-      first = false;
-    }
-    return s + (first ? "}" : " }");
-  }
-  std::ostringstream os;  // dates and times
-  if (auto* d = n.as_date()) os << *d;
-  else if (auto* tm = n.as_time()) os << *tm;
-  else if (auto* dt = n.as_date_time()) os << *dt;
-  return os.str();
-}
 
 nlohmann::json json_of(const toml::node& n) {
   if (auto* s = n.as_string()) return s->get();
   if (auto* i = n.as_integer()) return i->get();
   if (auto* f = n.as_floating_point()) {
     if (std::isfinite(f->get())) return f->get();
-    return float_text(f->get());
+    return toml_float_text(f->get());
   }
   if (auto* b = n.as_boolean()) return b->get();
   if (auto* a = n.as_array()) {
@@ -122,7 +57,7 @@ nlohmann::json json_of(const toml::node& n) {
     for (auto&& [k, v] : *t) j[std::string(k.str())] = json_of(v);
     return j;
   }
-  return toml_text(n);
+  return toml_value_text(n);
 }
 
 std::string where(const fs::path& file, const toml::source_region& r) {
@@ -142,7 +77,7 @@ struct Quantity {
 
 /// Splits "75 nm" into 75 and "nm"; nullopt when the text does not start with a number.
 std::optional<Quantity> split_quantity(std::string_view text) {
-  std::string_view s = trim(text);
+  std::string_view s = trim_blanks(text);
   if (s.empty()) return std::nullopt;
   bool negative = false;
   std::string_view num = s;
@@ -155,7 +90,7 @@ std::optional<Quantity> split_quantity(std::string_view text) {
   if (ec != std::errc() || end == num.data() || !std::isfinite(q.number)) return std::nullopt;
   if (negative) q.number = -q.number;
   const std::string_view digits(num.data(), std::size_t(end - num.data()));
-  q.unit = std::string(trim(std::string_view(end, std::size_t(num.data() + num.size() - end))));
+  q.unit = std::string(trim_blanks(std::string_view(end, std::size_t(num.data() + num.size() - end))));
   if (q.unit.empty() && digits.find_first_of(".eE") == std::string_view::npos) {
     std::int64_t v = 0;
     auto [iend, iec] = std::from_chars(digits.data(), digits.data() + digits.size(), v);
@@ -195,7 +130,7 @@ std::string rounded_text(double x) {
 }
 
 [[noreturn]] void range_fail(std::string_view text, const std::string& what) {
-  throw SweepError(fmt::format("value {}: {}; allowed: {}", quote(text), what, kRangeAllowed));
+  throw SweepError(fmt::format("value {}: {}; allowed: {}", toml_quote(text), what, kRangeAllowed));
 }
 
 // ---------------------------------------------------------------------------
@@ -279,7 +214,7 @@ toml::array axis_values(const toml::node& n, const std::string& key, const fs::p
     if (s->get().find("..") == std::string::npos)
       throw SweepError(fmt::format(
           "{}: sweep key '{}': value {}: a single value; allowed: a list of values [\"a\", \"b\"], or {}", at, key,
-          quote(s->get()), kRangeAllowed));
+          toml_quote(s->get()), kRangeAllowed));
     try {
       return sweep_range_values(s->get());
     } catch (const SweepError& e) {
@@ -391,17 +326,17 @@ std::vector<Axis> read_axes(const toml::table& sweep, const fs::path& file) {
 toml::array sweep_range_values(std::string_view text) {
   const std::size_t dots = text.find("..");
   if (dots == std::string_view::npos) range_fail(text, "no '..' between FROM and TO");
-  const std::string_view from_text = trim(text.substr(0, dots));
+  const std::string_view from_text = trim_blanks(text.substr(0, dots));
   std::string_view rest = text.substr(dots + 2);
   const std::size_t step_at = rest.find("step");
   if (step_at == std::string_view::npos) range_fail(text, "no 'step' after TO");
-  const std::string_view to_text = trim(rest.substr(0, step_at));
-  const std::string_view step_text = trim(rest.substr(step_at + 4));
+  const std::string_view to_text = trim_blanks(rest.substr(0, step_at));
+  const std::string_view step_text = trim_blanks(rest.substr(step_at + 4));
   if (from_text.empty() || to_text.empty() || step_text.empty())
     range_fail(text, "FROM, TO or STEP is missing");
 
   const auto from = split_quantity(from_text);
-  if (!from) range_fail(text, fmt::format("FROM {} does not start with a number", quote(from_text)));
+  if (!from) range_fail(text, fmt::format("FROM {} does not start with a number", toml_quote(from_text)));
 
   toml::array out;
   if (from->unit.empty()) {
@@ -409,9 +344,9 @@ toml::array sweep_range_values(std::string_view text) {
     const auto to = split_quantity(to_text), step = split_quantity(step_text);
     for (const auto& [q, t, what] : {std::tuple{&to, to_text, "TO"}, std::tuple{&step, step_text, "STEP"}})
       if (!*q || !(*q)->unit.empty())
-        range_fail(text, fmt::format("{} {} is not a plain number, but FROM {} is one", what, quote(t),
-                                     quote(from_text)));
-    if (!(step->number > 0)) range_fail(text, fmt::format("STEP {} is not > 0", quote(step_text)));
+        range_fail(text, fmt::format("{} {} is not a plain number, but FROM {} is one", what, toml_quote(t),
+                                     toml_quote(from_text)));
+    if (!(step->number > 0)) range_fail(text, fmt::format("STEP {} is not > 0", toml_quote(step_text)));
     if (to->number < from->number) range_fail(text, "TO is smaller than FROM");
     if (from->integer && to->integer && step->integer) {
       if ((to->as_int - from->as_int) % step->as_int != 0)
@@ -435,17 +370,17 @@ toml::array sweep_range_values(std::string_view text) {
   // Quantities: the kind is that of FROM; TO and STEP must be of the same kind.
   const UnitKind* kind = unit_kind_of(from_text);
   if (!kind)
-    range_fail(text, fmt::format("FROM {}: unit \"{}\" is not accepted", quote(from_text), from->unit));
+    range_fail(text, fmt::format("FROM {}: unit \"{}\" is not accepted", toml_quote(from_text), from->unit));
   auto base = [&](std::string_view part, const char* what) {
     try {
       return kind->parse(part);
     } catch (const UnitError& e) {
-      throw SweepError(fmt::format("value {}: {} (a {} like FROM): {}", quote(text), what, kind->name, e.what()));
+      throw SweepError(fmt::format("value {}: {} (a {} like FROM): {}", toml_quote(text), what, kind->name, e.what()));
     }
   };
   const double unit = base(fmt::format("1 {}", from->unit), "FROM");  // one FROM unit in base units
   const double to = base(to_text, "TO") / unit, step = base(step_text, "STEP") / unit;
-  if (!(step > 0)) range_fail(text, fmt::format("STEP {} is not > 0", quote(step_text)));
+  if (!(step > 0)) range_fail(text, fmt::format("STEP {} is not > 0", toml_quote(step_text)));
   if (to < from->number) range_fail(text, "TO is smaller than FROM");
   const double steps = (to - from->number) / step;
   if (std::abs(steps - std::round(steps)) > kRangeStepTolerance)
@@ -548,7 +483,7 @@ Sweep expand_sweep(const toml::table& root, const fs::path& file) {
       for (std::size_t a = 0; a < axes.size(); ++a)
         for (std::size_t k = 0; k < axes[a].keys.size(); ++k) {
           const toml::node& value = *axes[a].values[k].get(pick[a]);
-          var.values.push_back({axes[a].keys[k], toml_text(value), json_of(value)});
+          var.values.push_back({axes[a].keys[k], toml_value_text(value), json_of(value)});
           label += (label.empty() ? "" : ", ") + axes[a].keys[k] + " = " + var.values.back().toml;
         }
       for (std::size_t a = 0; a < axes.size(); ++a)

@@ -41,6 +41,33 @@ max_bounces = 100000
   }
 }
 
+TEST(TransportConservation, LosslessWaferTexturedOnBothSidesOnlyReflectsAndTransmits) {
+  const Scene scene = test::scene_from_text(R"(
+[wafer]
+material = { n = 3.5, k = 0 }
+thickness = "100 um"
+[front]
+texture = "random_pyramids"
+[front.random_pyramids]
+tile = "30 um"
+[rear]
+texture = "inverted_pyramids"
+medium = "air"
+[rear.pyramids]
+base = "8 um"
+gap = "1 um"
+[illumination]
+wavelengths = ["800 nm"]
+[run]
+max_bounces = 100000
+)");
+  auto run = prepare_run(scene);
+  const auto t = test::trace_all(*run, 5000)[0];
+  EXPECT_EQ(t.R_front + t.R_escape + t.T + t.unresolved + t.lost, t.photons);
+  EXPECT_GT(t.T, 0u);
+  EXPECT_LE(t.unresolved + t.lost, t.photons / 1000);
+}
+
 TEST(TransportConservation, EveryPhotonEndsInExactlyOneBin) {
   const Scene scene = test::scene_from_text(R"(
 [wafer]

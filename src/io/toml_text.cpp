@@ -1,0 +1,86 @@
+#include "io/toml_text.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <fmt/format.h>
+#include <sstream>
+
+#include "io/units.hpp"
+
+namespace lumtrap {
+
+std::string toml_quote(std::string_view s) {
+  std::string out = "\"";
+  for (char c : s) {
+    switch (c) {
+      case '"': out += "\\\""; break;
+      case '\\': out += "\\\\"; break;
+      case '\n': out += "\\n"; break;
+      case '\t': out += "\\t"; break;
+      case '\r': out += "\\r"; break;
+      case '\b': out += "\\b"; break;
+      case '\f': out += "\\f"; break;
+      default:
+        if (static_cast<unsigned char>(c) < 0x20 || c == 0x7F)
+          out += fmt::format("\\u{:04X}", static_cast<unsigned>(static_cast<unsigned char>(c)));
+        else
+          out += c;
+    }
+  }
+  return out + "\"";
+}
+
+std::string toml_float_text(double x) {
+  if (std::isnan(x)) return "nan";
+  if (std::isinf(x)) return x > 0 ? "inf" : "-inf";
+  std::string s = format_number(x);
+  if (s.find_first_of(".eE") == std::string::npos) s += ".0";
+  return s;
+}
+
+std::string toml_value_text(const toml::node& n, std::size_t max_items) {
+  if (auto* s = n.as_string()) return toml_quote(s->get());
+  if (auto* i = n.as_integer()) return std::to_string(i->get());
+  if (auto* f = n.as_floating_point()) return toml_float_text(f->get());
+  if (auto* b = n.as_boolean()) return b->get() ? "true" : "false";
+  if (auto* a = n.as_array()) {
+    std::string s = "[";
+    for (std::size_t i = 0; i < a->size(); ++i) {
+      if (i == max_items) {
+        s += ", ...";
+        break;
+      }
+      s += (i ? ", " : "") + toml_value_text(*a->get(i), max_items);
+    }
+    return s + "]";
+  }
+  if (auto* t = n.as_table()) {
+    std::string s = "{";
+    bool first = true;
+    for (auto&& [k, v] : *t) {
+      const std::string key(k.str());
+      s += (first ? " " : ", ") + (is_bare_key(key) ? key : toml_quote(key)) + " = " + toml_value_text(v, max_items);
+      first = false;
+    }
+    return s + (first ? "}" : " }");
+  }
+  std::ostringstream os;  // dates and times
+  if (auto* d = n.as_date()) os << *d;
+  else if (auto* tm = n.as_time()) os << *tm;
+  else if (auto* dt = n.as_date_time()) os << *dt;
+  return os.str();
+}
+
+bool is_bare_key(std::string_view s) {
+  return !s.empty() && std::all_of(s.begin(), s.end(), [](char c) {
+    return (c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') || c == '_' || c == '-';
+  });
+}
+
+std::string_view trim_blanks(std::string_view s) {
+  while (!s.empty() && (s.front() == ' ' || s.front() == '\t')) s.remove_prefix(1);
+  while (!s.empty() && (s.back() == ' ' || s.back() == '\t')) s.remove_suffix(1);
+  return s;
+}
+
+}  // namespace lumtrap

@@ -1,0 +1,30 @@
+#pragma once
+// TOML values as text: for writing resolved scenes and sweep tables, and for
+// quoting values in error messages.
+#include <cstddef>
+#include <limits>
+#include <string>
+#include <string_view>
+
+#include <toml++/toml.h>
+
+namespace lumtrap {
+
+/// A TOML basic string "..." with the escapes TOML requires.
+std::string toml_quote(std::string_view s);
+
+/// A TOML float (inf and nan included); integral values get ".0".
+std::string toml_float_text(double x);
+
+/// A node as it reads in TOML: strings quoted, inline arrays and tables
+/// (keys quoted when not bare). Arrays longer than `max_items` end in "...".
+std::string toml_value_text(const toml::node& n,
+                            std::size_t max_items = std::numeric_limits<std::size_t>::max());
+
+/// A bare TOML key / plain id: letters, digits, '_' and '-' only, not empty.
+bool is_bare_key(std::string_view s);
+
+/// `s` without leading and trailing spaces and tabs.
+std::string_view trim_blanks(std::string_view s);
+
+}  // namespace lumtrap
