@@ -36,7 +36,7 @@ double cos_of_w(double w, double cc) {
   return std::clamp(c, 0.0, 1.0);
 }
 
-Bracket locate(const StackTable& t, double cos_incident) {
+[[gnu::always_inline]] inline Bracket locate(const StackTable& t, double cos_incident) {
   double c = cos_incident;
   if (!(c > 0.0)) c = 0.0;  // also maps NaN to the grazing end
   if (c > 1.0) c = 1.0;

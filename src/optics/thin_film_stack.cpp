@@ -44,36 +44,43 @@ namespace {
 constexpr double kPi = 3.14159265358979323846;
 
 std::string describe(cplx n) {
-  return "(" + std::to_string(n.real()) + " + " + std::to_string(n.imag()) + "i)";
+  std::string s = "(";
+  s += std::to_string(n.real());
+  s += " + ";
+  s += std::to_string(n.imag());
+  s += "i)";
+  return s;
+}
+
+// Input checks; the message strings are only built on failure (solve_stack
+// runs thousands of times per tabulated stack).
+[[noreturn]] void fail(const std::string& what) {
+  throw std::invalid_argument("thin_film_stack.cpp: " + what);
+}
+
+void check_index(cplx n, const char* what, std::size_t layer, bool incident) {
+  auto name = [&] { return what ? std::string(what) : "layer " + std::to_string(layer); };
+  if (!std::isfinite(n.real()) || !std::isfinite(n.imag()) || n.imag() < 0.0)
+    fail(name() + " index " + describe(n) + ": must be finite with k >= 0");
+  if (incident && !(n.real() > 0.0))
+    fail(name() + " index " + describe(n) + ": the incident medium needs n > 0");
+  if (n == cplx(0.0)) fail(name() + " index is 0: not allowed");
 }
 
 void check_inputs(const FilmStack& stack, double wavelength_nm, double cos_incident,
                   Incidence side) {
-  const std::string where = "thin_film_stack.cpp: ";
   if (!(wavelength_nm > 0.0) || !std::isfinite(wavelength_nm))
-    throw std::invalid_argument(where + "wavelength_nm = " + std::to_string(wavelength_nm) +
-                                ": must be finite and > 0");
+    fail("wavelength_nm = " + std::to_string(wavelength_nm) + ": must be finite and > 0");
   if (!(cos_incident >= 0.0 && cos_incident <= 1.0))
-    throw std::invalid_argument(where + "cos_incident = " + std::to_string(cos_incident) +
-                                ": must lie in [0, 1]");
-  auto check_index = [&](cplx n, const std::string& what, bool incident) {
-    if (!std::isfinite(n.real()) || !std::isfinite(n.imag()) || n.imag() < 0.0)
-      throw std::invalid_argument(where + what + " index " + describe(n) +
-                                  ": must be finite with k >= 0");
-    if (incident && !(n.real() > 0.0))
-      throw std::invalid_argument(where + what + " index " + describe(n) +
-                                  ": the incident medium needs n > 0");
-    if (n == cplx(0.0))
-      throw std::invalid_argument(where + what + " index is 0: not allowed");
-  };
-  check_index(stack.n_a, "n_a", side == Incidence::from_a);
-  check_index(stack.n_b, "n_b", side == Incidence::from_b);
+    fail("cos_incident = " + std::to_string(cos_incident) + ": must lie in [0, 1]");
+  check_index(stack.n_a, "n_a", 0, side == Incidence::from_a);
+  check_index(stack.n_b, "n_b", 0, side == Incidence::from_b);
   for (std::size_t j = 0; j < stack.layers.size(); ++j) {
     const ThinLayer& l = stack.layers[j];
-    check_index(l.n, "layer " + std::to_string(j), false);
+    check_index(l.n, nullptr, j, false);
     if (!(l.thickness_nm >= 0.0) || !std::isfinite(l.thickness_nm))
-      throw std::invalid_argument(where + "layer " + std::to_string(j) + " thickness_nm = " +
-                                  std::to_string(l.thickness_nm) + ": must be finite and >= 0");
+      fail("layer " + std::to_string(j) + " thickness_nm = " + std::to_string(l.thickness_nm) +
+           ": must be finite and >= 0");
   }
 }
 
@@ -82,47 +89,81 @@ enum class Pol { s, p };
 // γ of the (u, v) pair, see the file comment.
 cplx admittance(Pol pol, cplx n, cplx q) { return pol == Pol::s ? q : q / (n * n); }
 
-// Solves one polarization for media ordered in the direction of travel:
-// incident (real index n_in), layers[0..N-1], exit n_out. A is returned in
-// that same order.
-PolarizedResponse solve_ordered(Pol pol, double n_in, const std::vector<ThinLayer>& layers,
-                                cplx n_out, double wavelength_nm, double cos_incident) {
-  const std::size_t N = layers.size();
-  PolarizedResponse res;
-  res.A.assign(N, 0.0);
+// The layers in the order the wave meets them: layer(j) = first[j * step].
+struct LayerOrder {
+  const ThinLayer* first = nullptr;
+  std::ptrdiff_t step = 1;
+  std::size_t count = 0;
+  const ThinLayer& operator()(std::size_t j) const { return first[static_cast<std::ptrdiff_t>(j) * step]; }
+};
+
+// Working storage of one polarization: flux at every boundary (see below),
+// on the stack for the usual few layers.
+struct FluxBuffer {
+  static constexpr std::size_t kInline = 16;
+  double inline_flux[kInline];
+  std::vector<double> heap;
+  double* data(std::size_t n) {
+    if (n <= kInline) return inline_flux;
+    heap.resize(n);
+    return heap.data();
+  }
+};
+
+// Solves both polarizations for media ordered in the direction of travel:
+// incident (real index n_in), order(0..N-1), exit n_out. The terms that do
+// not depend on the polarization (q, δ, e^{iδ} in every layer) are computed
+// once; every polarization-dependent quantity is the same expression as a
+// one-polarization solve would evaluate. The absorptance of the j-th layer
+// met is written to A[j], or to A[N-1-j] when `report_reversed` (incidence
+// from b), so that A is in FilmStack order.
+StackResponse solve_ordered(double n_in, const LayerOrder& order, cplx n_out, double wavelength_nm,
+                            double cos_incident, bool report_reversed) {
+  const std::size_t N = order.count;
+  StackResponse res;
+  res.s.A.assign(N, 0.0);
+  res.p.A.assign(N, 0.0);
 
   // Grazing limit (cos = 0): no power arrives through the plane; the
   // reflected amplitude tends to -1 for any stack (γ_in → 0 in the formula
   // for r below) and the transmitted amplitude to 0.
   if (cos_incident == 0.0) {
-    res.r = -1.0;
-    res.t = 0.0;
-    res.R = 1.0;
-    res.T = 0.0;
+    for (PolarizedResponse* r : {&res.s, &res.p}) {
+      r->r = -1.0;
+      r->t = 0.0;
+      r->R = 1.0;
+      r->T = 0.0;
+    }
     return res;
   }
 
   const double k0 = 2.0 * kPi / wavelength_nm;                     // vacuum wavenumber, 1/nm
   const cplx xi2 = n_in * n_in * (1.0 - cos_incident * cos_incident);  // (n_in sin θ)²
   const cplx q_in = n_in * cos_incident;
-  const cplx gamma_in = admittance(pol, n_in, q_in);              // real and > 0
   const cplx q_out = normal_index_component(n_out, xi2);
-  const cplx gamma_out = admittance(pol, n_out, q_out);
+  const Pol pols[2] = {Pol::s, Pol::p};
+  PolarizedResponse* out[2] = {&res.s, &res.p};
 
   // flux[j] = Re(u v*) at the entrance of layer j (j < N) and at the exit
   // medium (j = N), in the scaled representation; log_scale[j] is the sum of
   // Im δ over the layers from j to N-1 (the true flux is
   // flux[j] * exp(2 log_scale[j])).
-  std::vector<double> flux(N + 1), log_scale(N + 1);
-  cplx u = 1.0, v = gamma_out;
-  flux[N] = (u * std::conj(v)).real();
+  FluxBuffer fb_s, fb_p, fb_log;
+  double* flux[2] = {fb_s.data(N + 1), fb_p.data(N + 1)};
+  double* log_scale = fb_log.data(N + 1);
+  cplx gamma_in[2], u[2], v[2];
+  for (int k = 0; k < 2; ++k) {
+    gamma_in[k] = admittance(pols[k], n_in, q_in);  // real and > 0
+    u[k] = 1.0;
+    v[k] = admittance(pols[k], n_out, q_out);  // γ of the exit medium
+    flux[k][N] = (u[k] * std::conj(v[k])).real();
+  }
   log_scale[N] = 0.0;
   cplx total_phase = 0.0;  // Σ δ_j
 
   for (std::size_t jj = N; jj-- > 0;) {
-    const ThinLayer& layer = layers[jj];
+    const ThinLayer& layer = order(jj);
     const cplx q = normal_index_component(layer.n, xi2);
-    const cplx gamma = admittance(pol, layer.n, q);
     const cplx delta = k0 * q * layer.thickness_nm;
     total_phase += delta;
 
@@ -131,48 +172,59 @@ PolarizedResponse solve_ordered(Pol pol, double n_in, const std::vector<ThinLaye
     const cplx e = std::exp(cplx(0.0, 1.0) * delta);
     const cplx e2 = e * e;
     const cplx m11 = 0.5 * (1.0 + e2);
-    const cplx m21 = 0.5 * gamma * (1.0 - e2);  // -i γ e^{iδ} sin δ
-    cplx m12;                                    // -i e^{iδ} sin δ / γ
-    if (std::abs(delta) < 1e-3) {
-      // sin δ / γ = (q/γ) k0 d sinc δ stays finite when q → 0 (a lossless
-      // layer at its critical angle) and when d = 0; q/γ = 1 (s) or n² (p).
-      const cplx q_over_gamma = pol == Pol::s ? cplx(1.0) : layer.n * layer.n;
+    const bool small = std::abs(delta) < 1e-3;
+    cplx sinc = 0.0;
+    if (small) {
       const cplx d2 = delta * delta;
-      const cplx sinc = 1.0 - d2 / 6.0 + d2 * d2 / 120.0;
-      m12 = cplx(0.0, -1.0) * q_over_gamma * (k0 * layer.thickness_nm) * sinc * e;
-    } else {
-      m12 = 0.5 * (1.0 - e2) / gamma;
+      sinc = 1.0 - d2 / 6.0 + d2 * d2 / 120.0;
     }
-    const cplx u_left = m11 * u + m12 * v;
-    const cplx v_left = m21 * u + m11 * v;
-    u = u_left;
-    v = v_left;
-    flux[jj] = (u * std::conj(v)).real();
+    for (int k = 0; k < 2; ++k) {
+      const cplx gamma = admittance(pols[k], layer.n, q);
+      const cplx m21 = 0.5 * gamma * (1.0 - e2);  // -i γ e^{iδ} sin δ
+      cplx m12;                                    // -i e^{iδ} sin δ / γ
+      if (small) {
+        // sin δ / γ = (q/γ) k0 d sinc δ stays finite when q → 0 (a lossless
+        // layer at its critical angle) and when d = 0; q/γ = 1 (s) or n² (p).
+        const cplx q_over_gamma = pols[k] == Pol::s ? cplx(1.0) : layer.n * layer.n;
+        m12 = cplx(0.0, -1.0) * q_over_gamma * (k0 * layer.thickness_nm) * sinc * e;
+      } else {
+        m12 = 0.5 * (1.0 - e2) / gamma;
+      }
+      const cplx u_left = m11 * u[k] + m12 * v[k];
+      const cplx v_left = m21 * u[k] + m11 * v[k];
+      u[k] = u_left;
+      v[k] = v_left;
+      flux[k][jj] = (u[k] * std::conj(v[k])).real();
+    }
     log_scale[jj] = log_scale[jj + 1] + delta.imag();
   }
 
-  // Incident medium: u = G+ + G-, v = γ_in (G+ - G-).
-  const cplx two_g_plus = gamma_in * u + v;   // 2 γ_in G+ (scaled)
-  const cplx two_g_minus = gamma_in * u - v;  // 2 γ_in G- (scaled)
-  res.r = two_g_minus / two_g_plus;
-  // True G+ = scaled G+ · e^{-iΣδ}; the transmitted G+ is 1.
-  const cplx t_g = 2.0 * gamma_in * std::exp(cplx(0.0, 1.0) * total_phase) / two_g_plus;
-  res.t = pol == Pol::s ? t_g : (n_in / n_out) * t_g;  // p: E = G / n
-  res.R = std::norm(res.r);
+  for (int k = 0; k < 2; ++k) {
+    PolarizedResponse& r = *out[k];
+    // Incident medium: u = G+ + G-, v = γ_in (G+ - G-).
+    const cplx two_g_plus = gamma_in[k] * u[k] + v[k];   // 2 γ_in G+ (scaled)
+    const cplx two_g_minus = gamma_in[k] * u[k] - v[k];  // 2 γ_in G- (scaled)
+    r.r = two_g_minus / two_g_plus;
+    // True G+ = scaled G+ · e^{-iΣδ}; the transmitted G+ is 1.
+    const cplx t_g = 2.0 * gamma_in[k] * std::exp(cplx(0.0, 1.0) * total_phase) / two_g_plus;
+    r.t = pols[k] == Pol::s ? t_g : (n_in / n_out) * t_g;  // p: E = G / n
+    r.R = std::norm(r.r);
 
-  // Incident flux Re(γ_in) |G+|² (scaled); true fluxes relative to it carry
-  // exp(-2 (log_scale[0] - log_scale[j])) <= 1.
-  const double incident_flux = gamma_in.real() * std::norm(two_g_plus / (2.0 * gamma_in));
-  auto relative_flux = [&](std::size_t j) {
-    return flux[j] * std::exp(-2.0 * (log_scale[0] - log_scale[j])) / incident_flux;
-  };
-  double previous = relative_flux(0);
-  for (std::size_t j = 0; j < N; ++j) {
-    const double next = relative_flux(j + 1);
-    res.A[j] = previous - next;
-    previous = next;
+    // Incident flux Re(γ_in) |G+|² (scaled); true fluxes relative to it carry
+    // exp(-2 (log_scale[0] - log_scale[j])) <= 1.
+    const double incident_flux = gamma_in[k].real() * std::norm(two_g_plus / (2.0 * gamma_in[k]));
+    const double* f = flux[k];
+    auto relative_flux = [&](std::size_t j) {
+      return f[j] * std::exp(-2.0 * (log_scale[0] - log_scale[j])) / incident_flux;
+    };
+    double previous = relative_flux(0);
+    for (std::size_t j = 0; j < N; ++j) {
+      const double next = relative_flux(j + 1);
+      r.A[report_reversed ? N - 1 - j : j] = previous - next;
+      previous = next;
+    }
+    r.T = previous;  // flux entering the exit medium
   }
-  res.T = previous;  // flux entering the exit medium
   return res;
 }
 
@@ -181,23 +233,19 @@ PolarizedResponse solve_ordered(Pol pol, double n_in, const std::vector<ThinLaye
 StackResponse solve_stack(const FilmStack& stack, double wavelength_nm, double cos_incident,
                           Incidence side) {
   check_inputs(stack, wavelength_nm, cos_incident, side);
+  const std::size_t N = stack.layers.size();
 
   if (side == Incidence::from_a) {
     const double n_in = stack.n_a.real();  // incident medium's extinction ignored (header)
-    return {solve_ordered(Pol::s, n_in, stack.layers, stack.n_b, wavelength_nm, cos_incident),
-            solve_ordered(Pol::p, n_in, stack.layers, stack.n_b, wavelength_nm, cos_incident)};
+    return solve_ordered(n_in, LayerOrder{stack.layers.data(), 1, N}, stack.n_b, wavelength_nm,
+                         cos_incident, false);
   }
 
   // From b: the wave meets the layers in reverse order; A is reported back
   // in FilmStack order (a to b).
-  const std::vector<ThinLayer> reversed(stack.layers.rbegin(), stack.layers.rend());
   const double n_in = stack.n_b.real();
-  StackResponse res{
-      solve_ordered(Pol::s, n_in, reversed, stack.n_a, wavelength_nm, cos_incident),
-      solve_ordered(Pol::p, n_in, reversed, stack.n_a, wavelength_nm, cos_incident)};
-  std::reverse(res.s.A.begin(), res.s.A.end());
-  std::reverse(res.p.A.begin(), res.p.A.end());
-  return res;
+  return solve_ordered(n_in, LayerOrder{N ? stack.layers.data() + (N - 1) : nullptr, -1, N}, stack.n_a,
+                       wavelength_nm, cos_incident, true);
 }
 
 }  // namespace lumtrap

@@ -6,6 +6,8 @@
 #include <fmt/format.h>
 #include <stdexcept>
 
+#include <tbb/parallel_for.h>
+
 #include "trace/checkpoint.hpp"
 
 namespace lumtrap {
@@ -31,9 +33,17 @@ struct Driver {
   std::chrono::steady_clock::time_point last_save = std::chrono::steady_clock::now();
   std::uint64_t first = 0;  // index of the first photon of every wavelength (split runs)
 
+  // Builds the tables of wavelength i and of the next few (the wavelengths are
+  // worked through in order), in parallel: a few thousand photons per
+  // wavelength then spend no time building tables on one thread.
   const WavelengthOptics& optics_of(std::size_t i) {
     if (optics.size() != tallies.size()) optics.resize(tallies.size());
-    if (optics[i].wavelength_nm == 0) optics[i] = wavelength_optics(run, i);
+    if (optics[i].wavelength_nm == 0) {
+      const std::size_t end = std::min(optics.size(), i + 8);
+      tbb::parallel_for(i, end, [&](std::size_t j) {
+        if (optics[j].wavelength_nm == 0) optics[j] = wavelength_optics(run, j);
+      });
+    }
     return optics[i];
   }
 

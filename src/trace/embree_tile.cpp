@@ -1,5 +1,6 @@
 #include "trace/embree_tile.hpp"
 
+#include <cstdint>
 #include <stdexcept>
 #include <string>
 
@@ -37,18 +38,20 @@ TileScene::TileScene(const EmbreeDevice& device, const geometry::TileMesh& mesh)
   auto* v = static_cast<float*>(rtcSetNewGeometryBuffer(geom, RTC_BUFFER_TYPE_VERTEX, 0,
                                                         RTC_FORMAT_FLOAT3, 3 * sizeof(float),
                                                         mesh.vertices.size()));
-  auto* t = static_cast<unsigned*>(rtcSetNewGeometryBuffer(geom, RTC_BUFFER_TYPE_INDEX, 0,
-                                                           RTC_FORMAT_UINT3, 3 * sizeof(unsigned),
-                                                           mesh.triangles.size()));
-  if (!v || !t) {
+  if (!v) {
     rtcReleaseGeometry(geom);
     throw_if_error(dev, "buffer allocation");
     throw std::runtime_error("Embree buffer allocation failed");
   }
   for (std::size_t i = 0; i < mesh.vertices.size(); ++i)
     for (int c = 0; c < 3; ++c) v[3 * i + c] = float(mesh.vertices[i][c]);
-  for (std::size_t i = 0; i < mesh.triangles.size(); ++i)
-    for (int c = 0; c < 3; ++c) t[3 * i + c] = mesh.triangles[i][c];
+  // The index buffer is the mesh's own triangle array (three packed uint32
+  // per triangle, Embree's RTC_FORMAT_UINT3), not a copy: on a 1 mm tile of
+  // random pyramids (~10^7 triangles) that saves ~130 MB.
+  static_assert(sizeof(mesh.triangles[0]) == 3 * sizeof(std::uint32_t), "triangles must be packed uint32 triples");
+  rtcSetSharedGeometryBuffer(geom, RTC_BUFFER_TYPE_INDEX, 0, RTC_FORMAT_UINT3, mesh.triangles.data(), 0,
+                             3 * sizeof(std::uint32_t), mesh.triangles.size());
+  throw_if_error(dev, "index buffer");
   rtcCommitGeometry(geom);
   rtcAttachGeometry(scene_, geom);
   rtcReleaseGeometry(geom);  // the scene holds the reference now

@@ -1,7 +1,9 @@
 #pragma once
 // Embree objects with explicit ownership: one device per run, one scene per
-// texture tile (front, rear). The scene owns a copy of the tile's triangles
-// in single precision; the transport keeps double-precision normals.
+// texture tile (front, rear). The scene owns a single-precision copy of the
+// tile's vertices and reads the triangle indices from the mesh itself, so the
+// mesh must outlive the scene (PreparedRun keeps both); the transport keeps
+// double-precision normals.
 #include <embree3/rtcore.h>
 
 #include "geometry/mesh.hpp"
@@ -22,7 +24,8 @@ class EmbreeDevice {
 };
 
 /// Owns an RTCScene holding one triangle geometry: the mesh of one tile.
-/// Triangle primID i is mesh.triangles[i].
+/// Triangle primID i is mesh.triangles[i]. `mesh` must outlive the scene and
+/// keep its triangles unchanged (they are shared, not copied).
 class TileScene {
  public:
   TileScene(const EmbreeDevice& device, const geometry::TileMesh& mesh);

@@ -1,5 +1,7 @@
 #include "trace/optical_tables.hpp"
 
+#include <tbb/parallel_for.h>
+
 namespace lumtrap {
 
 Material material_from_ref(const MaterialRef& ref, const Scene& scene) {
@@ -57,30 +59,46 @@ WavelengthOptics make_wavelength_optics(const Scene& scene, const SceneMaterials
   o.front.n_inside = n_si.real();
   o.front.outside_absorbs = false;
   o.front.ideal = scene.front.interface_model == InterfaceModel::ideal;
-  for (double c : front_tilt_cos) {
+  // The tables are independent: list them, then solve them in parallel
+  // (each is written to its own slot, so the result does not depend on the
+  // number of threads).
+  struct Job {
+    StackTable* table;
+    FilmStack stack;
+    Incidence side;
+  };
+  std::vector<Job> jobs;
+  o.front.from_outside.resize(front_tilt_cos.size());
+  o.front.from_inside.resize(front_tilt_cos.size());
+  for (std::size_t k = 0; k < front_tilt_cos.size(); ++k) {
     FilmStack st{n_amb, layers_at(scene.front.films, mats.front_films, lambda,
-                                  thickness_scale(scene.front.conformality, c)),
+                                  thickness_scale(scene.front.conformality, front_tilt_cos[k])),
                  n_si};
-    o.front.from_outside.push_back(tabulate_stack(st, lambda, Incidence::from_a, samples));
-    o.front.from_inside.push_back(tabulate_stack(st, lambda, Incidence::from_b, samples));
+    jobs.push_back({&o.front.from_outside[k], st, Incidence::from_a});
+    jobs.push_back({&o.front.from_inside[k], st, Incidence::from_b});
   }
   // Rear: a = silicon, layers silicon → outside, b = rear medium.
   o.rear.n_outside = n_rear.real();
   o.rear.n_inside = n_si.real();
   o.rear.outside_absorbs = n_rear.imag() > 0;
   o.rear.ideal = scene.rear.interface_model == InterfaceModel::ideal;
-  for (double c : rear_tilt_cos) {
+  o.rear.from_inside.resize(rear_tilt_cos.size());
+  o.rear.from_outside.resize(rear_tilt_cos.size());
+  for (std::size_t k = 0; k < rear_tilt_cos.size(); ++k) {
     if (scene.rear_perfect_mirror) {
-      o.rear.from_inside.push_back(perfect_mirror_table(samples));
-      o.rear.from_outside.push_back(perfect_mirror_table(samples));
+      o.rear.from_inside[k] = perfect_mirror_table(samples);
+      o.rear.from_outside[k] = perfect_mirror_table(samples);
       continue;
     }
     FilmStack st{n_si, layers_at(scene.rear.films, mats.rear_films, lambda,
-                                 thickness_scale(scene.rear.conformality, c)),
+                                 thickness_scale(scene.rear.conformality, rear_tilt_cos[k])),
                  n_rear};
-    o.rear.from_inside.push_back(tabulate_stack(st, lambda, Incidence::from_a, samples));
-    o.rear.from_outside.push_back(tabulate_stack(st, lambda, Incidence::from_b, samples));
+    jobs.push_back({&o.rear.from_inside[k], st, Incidence::from_a});
+    jobs.push_back({&o.rear.from_outside[k], st, Incidence::from_b});
   }
+  tbb::parallel_for(std::size_t(0), jobs.size(), [&](std::size_t j) {
+    *jobs[j].table = tabulate_stack(jobs[j].stack, lambda, jobs[j].side, samples);
+  });
   return o;
 }
 

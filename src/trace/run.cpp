@@ -49,7 +49,9 @@ std::unique_ptr<PreparedRun> prepare_run(const Scene& scene, std::uint64_t varia
   run->scene = scene;
   run->variant = variant;
   run->materials = load_scene_materials(scene);
-  run->model = build_wafer_model(scene);
+  // The Embree scenes are built before the per-triangle normals exist: on a
+  // large tile the BVH build's working memory then never coexists with them.
+  run->model = build_wafer_geometry(scene);
   const double deepest = scene.wafer.thickness_um + (run->model.front.mesh.max_z() - run->model.front.mesh.min_z()) +
                          (run->model.rear.mesh.max_z() - run->model.rear.mesh.min_z());
   run->layout = make_tally_layout(int(scene.front.films.size()), int(scene.rear.films.size()), deepest);
@@ -58,6 +60,7 @@ std::unique_ptr<PreparedRun> prepare_run(const Scene& scene, std::uint64_t varia
   run->device = std::make_unique<EmbreeDevice>();
   run->front_scene = std::make_unique<TileScene>(*run->device, run->model.front.mesh);
   run->rear_scene = std::make_unique<TileScene>(*run->device, run->model.rear.mesh);
+  add_facet_normals(run->model, scene);
   return run;
 }
 
@@ -72,7 +75,10 @@ WavelengthTally trace_wavelength(const PreparedRun& run, const WavelengthOptics&
                                         run.layout, i);
   ctx.variant = run.variant;
   tbb::combinable<WavelengthTally> partial([&] { return WavelengthTally(run.layout); });
-  tbb::parallel_for(tbb::blocked_range<std::uint64_t>(begin, end, 256),
+  // Small chunks: a few thousand photons per call (the precision pilot) still
+  // spread evenly over the threads; photon i's random numbers depend on i
+  // only, so the split does not change the tally.
+  tbb::parallel_for(tbb::blocked_range<std::uint64_t>(begin, end, 32),
                     [&](const tbb::blocked_range<std::uint64_t>& r) {
                       trace_photons(ctx, r.begin(), r.end(), partial.local());
                     });

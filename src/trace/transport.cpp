@@ -35,11 +35,19 @@ struct Photon {
 // Moves the photon through one textured zone until it hits the surface or
 // leaves the zone through its top or bottom plane; lateral tile walls wrap
 // around (periodic tile). `path` returns the distance travelled.
+//
+// A photon that starts above the highest point of the surface and travels
+// up, or below the lowest and travels down, cannot meet it: Embree is not
+// asked (the margin, half the ray offset s.eps, is many float ulps, so the
+// single-precision scene could not report a hit either). On a planar surface
+// this is every ray leaving it after an interaction.
 ZoneExit cross_zone(const TileScene& scene, const SurfaceModel& s, Photon& ph, double& path,
                     unsigned& prim) {
   path = 0;
   const Eigen::Vector3d& d = ph.d;
   const double L = s.period;
+  const bool moving_away = (d.z() > 0 && ph.p.z() > s.max_z + 0.5 * s.eps) ||
+                           (d.z() < 0 && ph.p.z() < s.min_z - 0.5 * s.eps);
   for (int k = 0; k < kMaxWallCrossings; ++k) {
     const Eigen::Vector3d& p = ph.p;
     double tz = d.z() > 0 ? (s.zone_hi - p.z()) / d.z() : d.z() < 0 ? (s.zone_lo - p.z()) / d.z() : kInf;
@@ -51,30 +59,32 @@ ZoneExit cross_zone(const TileScene& scene, const SurfaceModel& s, Photon& ph, d
     const double twall = std::min(tx, ty);
     const double tmax = std::min(tz, twall);
 
-    RTCRayHit rh;
-    rh.ray.org_x = float(p.x());
-    rh.ray.org_y = float(p.y());
-    rh.ray.org_z = float(p.z());
-    rh.ray.dir_x = float(d.x());
-    rh.ray.dir_y = float(d.y());
-    rh.ray.dir_z = float(d.z());
-    rh.ray.tnear = 0.0f;
-    rh.ray.tfar = float(tmax) * (1.0f + 4e-7f) + 1e-30f;
-    rh.ray.mask = 0xFFFFFFFFu;
-    rh.ray.flags = 0;
-    rh.ray.time = 0.0f;
-    rh.hit.geomID = RTC_INVALID_GEOMETRY_ID;
-    rh.hit.instID[0] = RTC_INVALID_GEOMETRY_ID;
-    RTCIntersectContext ictx;
-    rtcInitIntersectContext(&ictx);
-    rtcIntersect1(scene.get(), &ictx, &rh);
+    if (!moving_away) {
+      RTCRayHit rh;
+      rh.ray.org_x = float(p.x());
+      rh.ray.org_y = float(p.y());
+      rh.ray.org_z = float(p.z());
+      rh.ray.dir_x = float(d.x());
+      rh.ray.dir_y = float(d.y());
+      rh.ray.dir_z = float(d.z());
+      rh.ray.tnear = 0.0f;
+      rh.ray.tfar = float(tmax) * (1.0f + 4e-7f) + 1e-30f;
+      rh.ray.mask = 0xFFFFFFFFu;
+      rh.ray.flags = 0;
+      rh.ray.time = 0.0f;
+      rh.hit.geomID = RTC_INVALID_GEOMETRY_ID;
+      rh.hit.instID[0] = RTC_INVALID_GEOMETRY_ID;
+      RTCIntersectContext ictx;
+      rtcInitIntersectContext(&ictx);
+      rtcIntersect1(scene.get(), &ictx, &rh);
 
-    if (rh.hit.geomID != RTC_INVALID_GEOMETRY_ID) {
-      const double t = rh.ray.tfar;
-      ph.p += t * d;
-      path += t;
-      prim = rh.hit.primID;
-      return ZoneExit::hit;
+      if (rh.hit.geomID != RTC_INVALID_GEOMETRY_ID) {
+        const double t = rh.ray.tfar;
+        ph.p += t * d;
+        path += t;
+        prim = rh.hit.primID;
+        return ZoneExit::hit;
+      }
     }
     if (tz <= twall) {
       ph.p += tz * d;
@@ -174,9 +184,26 @@ enum class Outcome { continues, ended };
 // The field after a specular event with amplitudes (a_s, a_p), normalised;
 // a fresh random linear state when polarization is not carried or the
 // amplitudes vanish.
-void set_field(Photon& ph, const SPComponents& sp, cplx as, cplx ap, bool carry, PhotonRng& rng) {
+//
+// The new field is outgoing_field (polarization.hpp), a_s E_s s + a_p E_p p_out,
+// written out with real basis vectors: a complex amplitude times a real
+// component is two real products, where the generic complex-times-complex
+// product would also add terms with a zero imaginary part (the results are
+// the same numbers; at most the sign of a zero component can differ, which
+// no later step can see).
+//
+// Inlined into interact and the amplitudes taken by reference: called, with
+// std::complex values in two registers each and the s, p frame just written
+// by decompose, the arguments were reassembled through memory (store
+// forwarding stalls that measured a third of this function's time).
+[[gnu::always_inline]] inline void set_field(Photon& ph, const SPComponents& sp, const cplx& as, const cplx& ap,
+                                             bool carry, PhotonRng& rng) {
   if (carry) {
-    Field E = outgoing_field(sp, as, ap, ph.d);
+    const Eigen::Vector3d p_out = ph.d.cross(sp.s);
+    const cplx a = as * sp.Es, b = ap * sp.Ep;
+    Field E;
+    for (int i = 0; i < 3; ++i)
+      E[i] = cplx(a.real() * sp.s[i] + b.real() * p_out[i], a.imag() * sp.s[i] + b.imag() * p_out[i]);
     const double n2 = E.squaredNorm();
     if (n2 > 1e-300) {
       ph.E = E / std::sqrt(n2);
@@ -293,39 +320,59 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   return Outcome::ended;
 }
 
-// Initial direction and field of a photon.
-void launch(const TraceContext& ctx, PhotonRng& rng, Photon& ph) {
-  const Illumination& il = *ctx.illumination;
-  const SurfaceModel& f = ctx.model->front;
-  if (il.kind == IlluminationKind::diffuse) {
-    ph.d = cosine_weighted(Eigen::Vector3d(0, 0, -1), rng.uniform(), rng.uniform());
-  } else {
-    const double st = std::sin(il.polar_rad), ct = std::cos(il.polar_rad);
-    ph.d = Eigen::Vector3d(st * std::cos(il.azimuth_rad), st * std::sin(il.azimuth_rad), -ct);
-  }
-  // s and p relative to the wafer's plane of incidence (the plane through
-  // the direction and the wafer normal); at normal incidence the azimuth
-  // fixes the plane.
-  Eigen::Vector3d s = ph.d.cross(Eigen::Vector3d(0, 0, 1));
+// Direction of collimated light and the s, p frame of a launched photon:
+// s and p relative to the wafer's plane of incidence (the plane through the
+// direction and the wafer normal); at normal incidence the azimuth fixes the
+// plane. Depends on the direction only, so for collimated light it is
+// computed once per photon range (LaunchFrame) instead of once per photon.
+struct LaunchFrame {
+  Eigen::Vector3d d, s, p;
+};
+
+LaunchFrame launch_frame(const Illumination& il, const Eigen::Vector3d& d) {
+  LaunchFrame f;
+  f.d = d;
+  Eigen::Vector3d s = d.cross(Eigen::Vector3d(0, 0, 1));
   if (s.squaredNorm() < 1e-20) s = Eigen::Vector3d(-std::sin(il.azimuth_rad), std::cos(il.azimuth_rad), 0);
   s.normalize();
-  const Eigen::Vector3d p = ph.d.cross(s);
+  f.s = s;
+  f.p = d.cross(s);
+  return f;
+}
+
+LaunchFrame collimated_frame(const Illumination& il) {
+  const double st = std::sin(il.polar_rad), ct = std::cos(il.polar_rad);
+  return launch_frame(il, Eigen::Vector3d(st * std::cos(il.azimuth_rad), st * std::sin(il.azimuth_rad), -ct));
+}
+
+// Initial direction and field of a photon (`collimated`: the frame of
+// collimated light; unused for diffuse light).
+void launch(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& rng, Photon& ph) {
+  const Illumination& il = *ctx.illumination;
+  const SurfaceModel& f = ctx.model->front;
+  LaunchFrame diffuse;
+  const LaunchFrame* frame = &collimated;
+  if (il.kind == IlluminationKind::diffuse) {
+    diffuse = launch_frame(il, cosine_weighted(Eigen::Vector3d(0, 0, -1), rng.uniform(), rng.uniform()));
+    frame = &diffuse;
+  }
+  ph.d = frame->d;
   double psi = 0;
   switch (il.polarization) {
     case PolarizationKind::s: psi = 0; break;
     case PolarizationKind::p: psi = 0.5 * kPi; break;
     case PolarizationKind::unpolarized: psi = kPi * rng.uniform(); break;
   }
-  ph.E = linear_field(s, p, psi);
+  ph.E = linear_field(frame->s, frame->p, psi);
   ph.p = Eigen::Vector3d(f.period * rng.uniform(), f.period * rng.uniform(), f.zone_hi);
   ph.zone = Zone::front;
   ph.medium = Medium::outside_front;
   ph.optical_depth_left = -std::log(rng.uniform());
 }
 
-void trace_one(const TraceContext& ctx, PhotonRng& rng, WavelengthTally& t) {
+void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& rng, WavelengthTally& t) {
   Photon ph;
-  launch(ctx, rng, ph);
+  launch(ctx, collimated, rng, ph);
   const WaferModel& M = *ctx.model;
   const double alpha = ctx.optics->alpha_per_um;
   const TallyLayout& L = *ctx.layout;
@@ -448,10 +495,11 @@ TraceContext make_trace_context(const Scene& scene, const WaferModel& model, con
 }
 
 void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t end, WavelengthTally& tally) {
+  const LaunchFrame collimated = collimated_frame(*ctx.illumination);
   for (std::uint64_t i = begin; i < end; ++i) {
     PhotonRng rng(ctx.seed, ctx.variant, ctx.wavelength_index, i);
     ++tally.photons;
-    trace_one(ctx, rng, tally);
+    trace_one(ctx, collimated, rng, tally);
   }
 }
 

@@ -32,10 +32,25 @@ double reference_level(const geometry::TileMesh& m, ThicknessConvention c) {
   return m.mean_z();
 }
 
-// Fills normals, facet classes, zone planes. `up` = outward normal points to +z.
-void finish_surface(SurfaceModel& s, bool up, bool classes_by_tilt) {
+// Fills the z range, zone planes and ray offset of a surface.
+void place_surface(SurfaceModel& s) {
   const auto& m = s.mesh;
   s.period = m.period;
+  const double zmin = m.min_z(), zmax = m.max_z();
+  s.min_z = zmin;
+  s.max_z = zmax;
+  double extent = std::max({m.period, zmax - zmin, 1.0});
+  // New ray origins are offset from the surface by a few float ulps of the
+  // largest coordinate (the Embree scene is single precision).
+  s.eps = 64.0 * extent * 1.2e-7;
+  double margin = 4.0 * s.eps;
+  s.zone_lo = zmin - margin;
+  s.zone_hi = zmax + margin;
+}
+
+// Fills normals and facet classes. `up` = outward normal points to +z.
+void add_triangle_normals(SurfaceModel& s, bool up, bool classes_by_tilt) {
+  const auto& m = s.mesh;
   s.outward.resize(m.triangles.size());
   s.facet_class.resize(m.triangles.size());
   s.tilt_cos.clear();
@@ -55,36 +70,24 @@ void finish_surface(SurfaceModel& s, bool up, bool classes_by_tilt) {
     s.facet_class[i] = static_cast<std::uint16_t>(k);
   }
   if (s.tilt_cos.size() > 65535) throw std::invalid_argument("too many distinct facet tilts");
-  const double zmin = m.min_z(), zmax = m.max_z();
-  s.min_z = zmin;
-  s.max_z = zmax;
-  double extent = std::max({m.period, zmax - zmin, 1.0});
-  // New ray origins are offset from the surface by a few float ulps of the
-  // largest coordinate (the Embree scene is single precision).
-  s.eps = 64.0 * extent * 1.2e-7;
-  double margin = 4.0 * s.eps;
-  s.zone_lo = zmin - margin;
-  s.zone_hi = zmax + margin;
 }
 
 }  // namespace
 
-WaferModel build_wafer_model(const Scene& scene) {
+WaferModel build_wafer_geometry(const Scene& scene) {
   WaferModel w;
   w.front.mesh = texture_mesh(scene.front.texture);
   geometry::TileMesh rear = texture_mesh(scene.rear.texture);
   const double ref_front = reference_level(w.front.mesh, scene.wafer.thickness_convention);
   const double ref_rear = reference_level(rear, scene.wafer.thickness_convention);
   // The rear texture points out of the wafer: mirror z. Normals are oriented
-  // explicitly (finish_surface), the winding swap keeps the mesh consistent.
+  // explicitly (add_triangle_normals), the winding swap keeps the mesh consistent.
   for (auto& v : rear.vertices) v.z() = -v.z();
   for (auto& t : rear.triangles) std::swap(t[1], t[2]);
   w.rear.mesh = std::move(rear);
 
-  const bool by_tilt_front = scene.front.conformality == Conformality::directional;
-  const bool by_tilt_rear = scene.rear.conformality == Conformality::directional;
-  finish_surface(w.front, true, by_tilt_front);
-  finish_surface(w.rear, false, by_tilt_rear);
+  place_surface(w.front);
+  place_surface(w.rear);
 
   const double W = scene.wafer.thickness_um;
   w.front_origin_z = W - ref_front;   // front local z = ref_front sits at wafer z = W
@@ -97,6 +100,17 @@ WaferModel build_wafer_model(const Scene& scene) {
         "high, rear {:.3f} um): the textured zones overlap",
         W, w.front.mesh.max_z() - w.front.mesh.min_z(),
         w.rear.mesh.max_z() - w.rear.mesh.min_z()));
+  return w;
+}
+
+void add_facet_normals(WaferModel& w, const Scene& scene) {
+  add_triangle_normals(w.front, true, scene.front.conformality == Conformality::directional);
+  add_triangle_normals(w.rear, false, scene.rear.conformality == Conformality::directional);
+}
+
+WaferModel build_wafer_model(const Scene& scene) {
+  WaferModel w = build_wafer_geometry(scene);
+  add_facet_normals(w, scene);
   return w;
 }
 

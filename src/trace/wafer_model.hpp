@@ -44,6 +44,14 @@ struct WaferModel {
 /// not depend on tilt); with directional films, one class per distinct tilt.
 WaferModel build_wafer_model(const Scene& scene);
 
+/// build_wafer_model in two steps, so that a caller can build its ray-tracing
+/// scenes from the meshes before the per-triangle data exists (peak memory
+/// of very large tiles): build_wafer_geometry places the meshes (everything
+/// but SurfaceModel::outward, facet_class and tilt_cos; same exceptions),
+/// add_facet_normals fills those.
+WaferModel build_wafer_geometry(const Scene& scene);
+void add_facet_normals(WaferModel& model, const Scene& scene);
+
 /// Texture mesh of one surface as the scene describes it (front or rear),
 /// in the texture's own frame (height field, z >= 0).
 geometry::TileMesh texture_mesh(const Texture& texture);
