@@ -32,6 +32,29 @@ struct Photon {
   int passes = 0;
 };
 
+// The nearest hit of a single-precision Embree ray from o along d within
+// [0, tfar]; hit.geomID is RTC_INVALID_GEOMETRY_ID on a miss.
+inline RTCRayHit intersect(RTCScene scene, const Eigen::Vector3d& o, const Eigen::Vector3d& d, float tfar) {
+  RTCRayHit rh;
+  rh.ray.org_x = float(o.x());
+  rh.ray.org_y = float(o.y());
+  rh.ray.org_z = float(o.z());
+  rh.ray.dir_x = float(d.x());
+  rh.ray.dir_y = float(d.y());
+  rh.ray.dir_z = float(d.z());
+  rh.ray.tnear = 0.0f;
+  rh.ray.tfar = tfar;
+  rh.ray.mask = 0xFFFFFFFFu;
+  rh.ray.flags = 0;
+  rh.ray.time = 0.0f;
+  rh.hit.geomID = RTC_INVALID_GEOMETRY_ID;
+  rh.hit.instID[0] = RTC_INVALID_GEOMETRY_ID;
+  RTCIntersectContext ictx;
+  rtcInitIntersectContext(&ictx);
+  rtcIntersect1(scene, &ictx, &rh);
+  return rh;
+}
+
 // Moves the photon through one textured zone until it hits the surface or
 // leaves the zone through its top or bottom plane; lateral tile walls wrap
 // around (periodic tile). `path` returns the distance travelled.
@@ -60,23 +83,7 @@ ZoneExit cross_zone(const TileScene& scene, const SurfaceModel& s, Photon& ph, d
     const double tmax = std::min(tz, twall);
 
     if (!moving_away) {
-      RTCRayHit rh;
-      rh.ray.org_x = float(p.x());
-      rh.ray.org_y = float(p.y());
-      rh.ray.org_z = float(p.z());
-      rh.ray.dir_x = float(d.x());
-      rh.ray.dir_y = float(d.y());
-      rh.ray.dir_z = float(d.z());
-      rh.ray.tnear = 0.0f;
-      rh.ray.tfar = float(tmax) * (1.0f + 4e-7f) + 1e-30f;
-      rh.ray.mask = 0xFFFFFFFFu;
-      rh.ray.flags = 0;
-      rh.ray.time = 0.0f;
-      rh.hit.geomID = RTC_INVALID_GEOMETRY_ID;
-      rh.hit.instID[0] = RTC_INVALID_GEOMETRY_ID;
-      RTCIntersectContext ictx;
-      rtcInitIntersectContext(&ictx);
-      rtcIntersect1(scene.get(), &ictx, &rh);
+      RTCRayHit rh = intersect(scene.get(), p, d, float(tmax) * (1.0f + 4e-7f) + 1e-30f);
 
       if (rh.hit.geomID != RTC_INVALID_GEOMETRY_ID) {
         const double t = rh.ray.tfar;
@@ -111,23 +118,8 @@ inline double wrap(double x, double L) {
 double front_height(const TraceContext& ctx, double x, double y) {
   const SurfaceModel& s = ctx.model->front;
   if (s.max_z <= s.min_z) return s.max_z;  // flat
-  RTCRayHit rh;
-  rh.ray.org_x = float(x);
-  rh.ray.org_y = float(y);
-  rh.ray.org_z = float(s.zone_lo);
-  rh.ray.dir_x = 0.0f;
-  rh.ray.dir_y = 0.0f;
-  rh.ray.dir_z = 1.0f;
-  rh.ray.tnear = 0.0f;
-  rh.ray.tfar = float(s.zone_hi - s.zone_lo);
-  rh.ray.mask = 0xFFFFFFFFu;
-  rh.ray.flags = 0;
-  rh.ray.time = 0.0f;
-  rh.hit.geomID = RTC_INVALID_GEOMETRY_ID;
-  rh.hit.instID[0] = RTC_INVALID_GEOMETRY_ID;
-  RTCIntersectContext ictx;
-  rtcInitIntersectContext(&ictx);
-  rtcIntersect1(ctx.front_scene->get(), &ictx, &rh);
+  const RTCRayHit rh = intersect(ctx.front_scene->get(), Eigen::Vector3d(x, y, s.zone_lo), Eigen::Vector3d(0, 0, 1),
+                                 float(s.zone_hi - s.zone_lo));
   if (rh.hit.geomID == RTC_INVALID_GEOMETRY_ID) return s.max_z;  // through a crack: the top (depth >= 0)
   return s.zone_lo + rh.ray.tfar;
 }
