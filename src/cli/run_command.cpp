@@ -3,7 +3,6 @@
 #include <tbb/global_control.h>
 #include <tbb/info.h>
 
-#include <algorithm>
 #include <atomic>
 #include <chrono>
 #include <csignal>
@@ -88,30 +87,14 @@ void add_run_command(CLI::App& app) {
     r.summary["photons_per_second"] = trace_s > 0 ? double(photons) / trace_s : 0.0;
     r.summary["interactions_per_second"] = trace_s > 0 ? double(r.summary["interactions"]) / trace_s : 0.0;
     if (scene.run.target_jg_error > 0) r.summary["target_J_G_sigma_mA_cm2"] = scene.run.target_jg_error;
-    {
-      // What the run spent: the photons per wavelength differ in precision
-      // mode (Neyman allocation), and the achieved σ(J_G) is that of the
-      // tallies (J_G_sigma_mA_cm2 above, the same formula as the driver's).
-      std::uint64_t lo = 0, hi = 0;
-      for (std::size_t i = 0; i < result.tallies.size(); ++i) {
-        const std::uint64_t n = result.tallies[i].photons;
-        lo = i == 0 ? n : std::min(lo, n);
-        hi = std::max(hi, n);
-      }
-      r.summary["photons_spent"] = photons;
-      r.summary["photons_per_wavelength_min"] = lo;
-      r.summary["photons_per_wavelength_max"] = hi;
-      r.summary["achieved_J_G_sigma_mA_cm2"] = result.jg_sigma_mA_cm2;
-      if (scene.run.target_jg_error > 0)
-        r.summary["target_J_G_sigma_met"] = result.jg_sigma_mA_cm2 <= scene.run.target_jg_error;
-    }
+    // The achieved σ(J_G) is that of the tallies (J_G_sigma_mA_cm2 above,
+    // the same formula as the driver's).
+    r.summary["achieved_J_G_sigma_mA_cm2"] = result.jg_sigma_mA_cm2;
+    if (scene.run.target_jg_error > 0)
+      r.summary["target_J_G_sigma_met"] = result.jg_sigma_mA_cm2 <= scene.run.target_jg_error;
     r.summary["warnings"] = warnings;
 
-    std::vector<OutputFile> files{{"spectral.csv", spectral_csv(r)},
-                                  {"summary.json", summary_json(r)},
-                                  {"scene.toml", resolved}};
-    for (auto& f : trace_extra_files(*run, result.tallies)) files.push_back(std::move(f));
-    write_result_folder(out, files, o->overwrite);
+    write_result_folder(out, trace_result_files(*run, r, result.tallies, resolved), o->overwrite);
     std::filesystem::remove(d.checkpoint);
     print_summary(r, out);
   });

@@ -74,6 +74,53 @@ struct Driver {
     }
     return true;
   }
+
+  // Fixed mode: `count` photons per wavelength (of this part of the run).
+  bool fixed(std::uint64_t count) {
+    const double total = double(count) * double(tallies.size());
+    double done_before = 0;
+    for (std::size_t i = 0; i < tallies.size(); ++i) {
+      if (!top_up(i, count, done_before, total)) return false;
+      done_before += double(count);
+    }
+    return true;
+  }
+
+  // Precision mode: a pilot, then Neyman allocation rounds until σ(J_G) <= target.
+  bool precision(std::uint64_t cap, double target) {
+    const std::size_t nw = tallies.size();
+    const std::uint64_t pilot = std::min<std::uint64_t>(cap, 2000);
+    for (std::size_t i = 0; i < nw; ++i)
+      if (!top_up(i, std::max(pilot, tallies[i].photons), 0, 0)) return false;
+    for (int round = 0; round < 50; ++round) {
+      const double sigma = jg_sigma(run, tallies);
+      if (sigma <= target) break;
+      // Total photons needed if allocated optimally: (Σ w_i s_i)^2 / σ_t^2,
+      // with s_i = sqrt(p_i (1 - p_i)) (floored so no wavelength starves).
+      std::vector<double> ws(nw);
+      double sum_ws = 0;
+      for (std::size_t i = 0; i < nw; ++i) {
+        const auto& t = tallies[i];
+        double p = double(t.A_si) / double(std::max<std::uint64_t>(t.photons, 1));
+        p = std::clamp(p, 0.5 / double(t.photons + 1), 1.0 - 0.5 / double(t.photons + 1));
+        ws[i] = run.band_weight[i] * std::sqrt(p * (1 - p));
+        sum_ws += ws[i];
+      }
+      const double sigma_flux = target / current_mA_per_cm2(1.0);  // target in photons m^-2 s^-1
+      const double n_total = sum_ws * sum_ws / (sigma_flux * sigma_flux) * 1.05;
+      bool grew = false;
+      for (std::size_t i = 0; i < nw; ++i) {
+        const auto want = std::uint64_t(std::ceil(n_total * ws[i] / sum_ws));
+        const std::uint64_t goal = std::min(cap, want);
+        if (goal > tallies[i].photons) {
+          grew = true;
+          if (!top_up(i, goal, 0, 0)) return false;
+        }
+      }
+      if (!grew) break;  // capped everywhere
+    }
+    return true;
+  }
 };
 
 }  // namespace
@@ -104,55 +151,10 @@ DriveResult drive_run(const PreparedRun& run, const DriveOptions& opt) {
                                             opt.first_photon, last, cap));
   d.first = opt.first_photon;
 
-  if (target <= 0) {
-    const std::uint64_t count = last - opt.first_photon;  // photons per wavelength of this (part of the) run
-    const double total = double(count) * double(nw);
-    double done_before = 0;
-    for (std::size_t i = 0; i < nw; ++i) {
-      if (!d.top_up(i, count, done_before, total)) {
-        out.tallies = std::move(d.tallies);
-        return out;
-      }
-      done_before += double(count);
-    }
-  } else {
-    // Pilot, then Neyman allocation rounds.
-    const std::uint64_t pilot = std::min<std::uint64_t>(cap, 2000);
-    for (std::size_t i = 0; i < nw; ++i)
-      if (!d.top_up(i, std::max(pilot, d.tallies[i].photons), 0, 0)) {
-        out.tallies = std::move(d.tallies);
-        return out;
-      }
-    for (int round = 0; round < 50; ++round) {
-      const double sigma = jg_sigma(run, d.tallies);
-      if (sigma <= target) break;
-      // Total photons needed if allocated optimally: (Σ w_i s_i)^2 / σ_t^2,
-      // with s_i = sqrt(p_i (1 - p_i)) (floored so no wavelength starves).
-      std::vector<double> ws(nw);
-      double sum_ws = 0;
-      for (std::size_t i = 0; i < nw; ++i) {
-        const auto& t = d.tallies[i];
-        double p = double(t.A_si) / double(std::max<std::uint64_t>(t.photons, 1));
-        p = std::clamp(p, 0.5 / double(t.photons + 1), 1.0 - 0.5 / double(t.photons + 1));
-        ws[i] = run.band_weight[i] * std::sqrt(p * (1 - p));
-        sum_ws += ws[i];
-      }
-      const double sigma_flux = target / current_mA_per_cm2(1.0);  // target in photons m^-2 s^-1
-      const double n_total = sum_ws * sum_ws / (sigma_flux * sigma_flux) * 1.05;
-      bool grew = false;
-      for (std::size_t i = 0; i < nw; ++i) {
-        const auto want = std::uint64_t(std::ceil(n_total * ws[i] / sum_ws));
-        const std::uint64_t goal = std::min(cap, want);
-        if (goal > d.tallies[i].photons) {
-          grew = true;
-          if (!d.top_up(i, goal, 0, 0)) {
-            out.tallies = std::move(d.tallies);
-            return out;
-          }
-        }
-      }
-      if (!grew) break;  // capped everywhere
-    }
+  const bool finished = target <= 0 ? d.fixed(last - opt.first_photon) : d.precision(cap, target);
+  if (!finished) {  // stopped: the checkpoint holds the work done
+    out.tallies = std::move(d.tallies);
+    return out;
   }
   out.jg_sigma_mA_cm2 = jg_sigma(run, d.tallies);
   out.tallies = std::move(d.tallies);

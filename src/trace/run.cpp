@@ -4,6 +4,7 @@
 #include <tbb/combinable.h>
 #include <tbb/parallel_for.h>
 
+#include <algorithm>
 #include <cmath>
 #include <fmt/format.h>
 
@@ -126,12 +127,19 @@ Results results_from_tallies(const PreparedRun& run, const std::vector<Wavelengt
   compute_currents(r);
 
   std::uint64_t photons = 0, interactions = 0, passes = 0;
+  std::uint64_t fewest = tallies.empty() ? 0 : tallies.front().photons, most = 0;
   for (const auto& t : tallies) {
     photons += t.photons;
     interactions += t.interactions;
     passes += t.bulk_passes;
+    fewest = std::min(fewest, t.photons);
+    most = std::max(most, t.photons);
   }
   r.summary["photons"] = photons;
+  // The photons per wavelength differ in precision mode (Neyman allocation).
+  r.summary["photons_spent"] = photons;
+  r.summary["photons_per_wavelength_min"] = fewest;
+  r.summary["photons_per_wavelength_max"] = most;
   r.summary["interactions"] = interactions;
   r.summary["bulk_passes"] = passes;
   r.summary["seed"] = sc.run.seed;
@@ -142,6 +150,16 @@ Results results_from_tallies(const PreparedRun& run, const std::vector<Wavelengt
   r.summary["front_triangles"] = run.model.front.mesh.triangles.size();
   r.summary["rear_triangles"] = run.model.rear.mesh.triangles.size();
   return r;
+}
+
+std::vector<OutputFile> trace_result_files(const PreparedRun& run, const Results& results,
+                                           const std::vector<WavelengthTally>& tallies,
+                                           const std::string& scene_text) {
+  std::vector<OutputFile> files{{"spectral.csv", spectral_csv(results)},
+                                {"summary.json", summary_json(results)},
+                                {"scene.toml", scene_text}};
+  for (auto& f : trace_extra_files(run, tallies)) files.push_back(std::move(f));
+  return files;
 }
 
 std::vector<OutputFile> trace_extra_files(const PreparedRun& run, const std::vector<WavelengthTally>& tallies) {

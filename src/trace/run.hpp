@@ -50,6 +50,12 @@ WavelengthTally trace_wavelength(const PreparedRun& run, const WavelengthOptics&
 /// Fractions, standard errors and currents of the tallies (one per run wavelength).
 Results results_from_tallies(const PreparedRun& run, const std::vector<WavelengthTally>& tallies);
 
+/// Every file of a traced run's result folder: spectral.csv, summary.json,
+/// scene.toml (the given resolved scene text) and the extra files below.
+std::vector<OutputFile> trace_result_files(const PreparedRun& run, const Results& results,
+                                           const std::vector<WavelengthTally>& tallies,
+                                           const std::string& scene_text);
+
 /// The extra files of a traced run: generation profile, escape and rear
 /// angle distributions, passes per absorbed photon (and per-wavelength depth
 /// histograms when the scene asks for them).

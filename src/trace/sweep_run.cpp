@@ -153,10 +153,7 @@ std::vector<OutputFile> result_files(const SweepFolder& f, std::size_t v, const 
   r.summary["scene_hash"] = var.scene_hash;
   r.summary["tool_version"] = LUMTRAP_VERSION;
   for (auto it = facts.begin(); it != facts.end(); ++it) r.summary[it.key()] = it.value();
-  std::vector<OutputFile> files{{"spectral.csv", spectral_csv(r)},
-                                {"summary.json", summary_json(r)},
-                                {"scene.toml", lv.scene_text}};
-  for (auto& file : trace_extra_files(*lv.run, tallies)) files.push_back(std::move(file));
+  std::vector<OutputFile> files = trace_result_files(*lv.run, r, tallies, lv.scene_text);
   files.push_back({"tallies.json", tally_set_json(TallySet{var.scene_hash, LUMTRAP_VERSION, tallies})});
   if (results_out) *results_out = std::move(r);
   return files;

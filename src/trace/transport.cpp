@@ -262,14 +262,18 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   const double xi = rng.uniform();
   const Eigen::Vector3d hit = ph.p;
 
-  if (xi <= R) {  // reflection, stays on the incident side
-    if (diffuse) {
-      ph.d = cosine_weighted(m, rng.uniform(), rng.uniform());
-      ph.E = random_linear_field(ph.d, rng);
-    } else {
-      ph.d = (ph.d + 2.0 * cos_i * m).normalized();
-      set_field(ph, sp, r.rs, r.rp, carry, rng);
-    }
+  // Mirror reflection with the field carried by r_s, r_p; stays on the incident side.
+  const auto reflect_specular = [&] {
+    ph.d = (ph.d + 2.0 * cos_i * m).normalized();
+    set_field(ph, sp, r.rs, r.rp, carry, rng);
+    ph.p = hit + sm.eps * m;
+    return Outcome::continues;
+  };
+
+  if (xi <= R) {  // reflection
+    if (!diffuse) return reflect_specular();
+    ph.d = cosine_weighted(m, rng.uniform(), rng.uniform());
+    ph.E = random_linear_field(ph.d, rng);
     ph.p = hit + sm.eps * m;
     return Outcome::continues;
   }
@@ -285,10 +289,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
     } else if (sin2t >= 1.0) {
       // T > 0 read from the table just beyond the critical angle (the
       // interpolation's edge): nothing can refract, so it reflects.
-      ph.d = (ph.d + 2.0 * cos_i * m).normalized();
-      set_field(ph, sp, r.rs, r.rp, carry, rng);
-      ph.p = hit + sm.eps * m;
-      return Outcome::continues;
+      return reflect_specular();
     } else {
       const double cos_t = std::sqrt(1.0 - sin2t);
       ph.d = (eta * ph.d + (eta * cos_i - cos_t) * m).normalized();
