@@ -48,7 +48,8 @@
 
 #include <embree3/rtcore.h>
 
-#include "io/scene_parser.hpp"
+#include "io/scene_reader.hpp"
+#include "io/scene_writer.hpp"
 #include "trace/driver.hpp"
 #include "trace/rng.hpp"
 #include "trace/run.hpp"
@@ -403,7 +404,7 @@ void big_section(const Options& o) {
   const double mb_mesh = child_peak_mb([&] {
     tbb::global_control limit(tbb::global_control::max_allowed_parallelism, std::size_t(o.threads));
     const double t0 = now_s();
-    const geometry::TileMesh mesh = texture_mesh(scene.front.texture);
+    const geometry::TileMesh mesh = geometry::build_texture(scene.front.texture);
     const double t1 = now_s();
     EmbreeDevice dev;
     const double t2 = now_s();

@@ -18,3 +18,24 @@ TileMesh planar_tile(double period_um) {
 }
 
 }  // namespace lumtrap::geometry
+
+// ---------------------------------------------------------------------------
+// texture = "planar": a flat surface (no keys).
+
+#include "geometry/texture_descriptor.hpp"
+
+namespace lumtrap::geometry {
+
+extern const TextureDescriptor kPlanarTexture;
+const TextureDescriptor kPlanarTexture{
+    .kind = "planar",
+    .table = "",
+    .summary = "a flat (polished) surface",
+    .params = {},
+    .regular = false,
+    .check = nullptr,
+    .smallest_feature_um = [](const TextureParams&) { return 0.0; },
+    .build = [](const TextureParams&) { return planar_tile(10.0); },
+};
+
+}  // namespace lumtrap::geometry

@@ -61,3 +61,62 @@ TileMesh regular_pyramids_tile(double base_um, double facet_deg, double gap_um, 
 }
 
 }  // namespace lumtrap::geometry
+
+// ---------------------------------------------------------------------------
+// texture = "upright_pyramids" / "inverted_pyramids", keys in [….pyramids].
+
+#include "geometry/texture_descriptor.hpp"
+
+namespace lumtrap::geometry {
+
+namespace {
+
+std::vector<ParamSpec> regular_params() {
+  return {
+      {.key = "base", .kind = ParamKind::length_um, .doc = "pyramid base side", .fallback = 5.0, .lo = 0,
+       .lo_open = true, .example = "5 um"},
+      {.key = "gap", .kind = ParamKind::length_um,
+       .doc = "flat strip between neighbouring pyramids (period = base + gap)", .fallback = 0.0, .lo = 0,
+       .example = "0.5 um"},
+      {.key = "facet_angle", .kind = ParamKind::angle_deg,
+       .doc = "facet angle to the wafer plane; default atan(sqrt 2), the {111} facets of alkaline-etched (100) "
+              "silicon (common practice)",
+       .fallback = kFacet111Deg, .lo = 0, .hi = 90, .lo_open = true, .hi_open = true, .example = "54.74 deg"},
+  };
+}
+
+double regular_feature(const TextureParams& p) { return p.number("base"); }
+
+}  // namespace
+
+extern const TextureDescriptor kUprightPyramidsTexture;
+const TextureDescriptor kUprightPyramidsTexture{
+    .kind = "upright_pyramids",
+    .table = "pyramids",
+    .summary = "a square array of square-based upright pyramids",
+    .params = regular_params(),
+    .regular = true,
+    .check = nullptr,
+    .smallest_feature_um = regular_feature,
+    .build =
+        [](const TextureParams& p) {
+          return regular_pyramids_tile(p.number("base"), p.number("facet_angle"), p.number("gap"), false);
+        },
+};
+
+extern const TextureDescriptor kInvertedPyramidsTexture;
+const TextureDescriptor kInvertedPyramidsTexture{
+    .kind = "inverted_pyramids",
+    .table = "pyramids",
+    .summary = "a square array of inverted pyramids (pits)",
+    .params = regular_params(),
+    .regular = true,
+    .check = nullptr,
+    .smallest_feature_um = regular_feature,
+    .build =
+        [](const TextureParams& p) {
+          return regular_pyramids_tile(p.number("base"), p.number("facet_angle"), p.number("gap"), true);
+        },
+};
+
+}  // namespace lumtrap::geometry

@@ -1,5 +1,7 @@
 #pragma once
 // Texture generators: each returns the mesh of one periodic tile (mesh.hpp).
+// Their scene keys are described in each texture's descriptor
+// (texture_descriptor.hpp), next to the generator.
 // Default facet angle 54.7356° is the angle between {111} and (100) planes,
 // atan(√2), of alkaline-etched (100) silicon (common practice).
 #include <cstddef>
@@ -52,5 +54,9 @@ struct RandomPyramidsReport {
 
 /// As above, also filling `report` (if not null).
 TileMesh random_pyramids_tile(const RandomPyramidsSpec& spec, RandomPyramidsReport* report);
+
+struct TextureParams;
+/// The spec of texture = "random_pyramids" parameters (texture_descriptor.hpp).
+RandomPyramidsSpec random_pyramids_spec(const TextureParams& params);
 
 }  // namespace lumtrap::geometry

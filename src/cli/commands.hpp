@@ -11,6 +11,7 @@ void add_planar_command(CLI::App& app);    // lumtrap planar SCENE
 void add_check_command(CLI::App& app);     // lumtrap check SCENE
 void add_materials_command(CLI::App& app); // lumtrap materials
 void add_sweep_command(CLI::App& app);     // lumtrap sweep plan|task|local|merge|status
+void add_end_states_command(CLI::App& app);  // lumtrap end-states
 
 /// Thrown by commands to end with a given exit code after a message.
 struct ExitCode {

@@ -6,8 +6,6 @@
 #include <iostream>
 #include <stdexcept>
 
-#include "io/scene_parser.hpp"
-#include "trace/checkpoint.hpp"
 
 namespace lumtrap::cli {
 
@@ -29,20 +27,16 @@ void refuse_existing(const std::filesystem::path& out, bool overwrite) {
                              " already exists; choose another --out or pass --overwrite to replace it");
 }
 
-std::string scene_hash(const Scene& scene) {
-  Scene s = scene;
-  s.run.threads = 0;
-  return text_hash(resolved_scene_toml(s));
-}
-
 void print_summary(const Results& r, const std::filesystem::path& out) {
   std::cout << fmt::format("{} under {}, {:g}-{:g} nm ({} wavelengths)\n", r.method, r.spectrum,
                            r.wavelength_nm.front(), r.wavelength_nm.back(), r.wavelength_nm.size());
-  std::cout << fmt::format("  {:<34} {:>9} {:>9}\n", "", "mA/cm2", "sigma");
+  std::cout << fmt::format("  {:<40} {:>9} {:>9}\n", "", "mA/cm2", "sigma");
   for (const auto& b : r.bins)
-    std::cout << fmt::format("  {:<34} {:>9.3f} {:>9.3f}\n", b.name == "A_si" ? "J_G (A_si)" : b.name,
+    std::cout << fmt::format("  {:<40} {:>9.3f} {:>9.3f}\n",
+                             b.bin.state == EndState::absorbed_silicon ? "J_G (absorbed_silicon)" : b.bin.name,
                              b.current_mA_cm2, b.current_sigma_mA_cm2);
-  std::cout << fmt::format("  {:<34} {:>9.3f}\n", "J_max", r.J_max_mA_cm2);
+  std::cout << fmt::format("  {:<40} {:>9.3f}\n", "J_max", r.J_max_mA_cm2);
+  std::cout << "(model estimates)\n";
   std::cout << "results in " << out.string() << "/\n";
 }
 

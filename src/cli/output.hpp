@@ -24,10 +24,6 @@ std::filesystem::path result_folder(const OutputOptions& o, const Scene& scene, 
 /// Fails before any work is done when the folder exists and --overwrite was not given.
 void refuse_existing(const std::filesystem::path& out, bool overwrite);
 
-/// Hash of the resolved scene (identifies a scene's physics across runs and
-/// jobs): the thread count, which does not change any number, is left out.
-std::string scene_hash(const Scene& scene);
-
 /// A short human-readable table of J_G and the losses on stdout.
 void print_summary(const Results& r, const std::filesystem::path& out);
 

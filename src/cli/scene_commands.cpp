@@ -1,14 +1,21 @@
 // lumtrap planar / check / materials: the commands that need no ray tracing.
 #include <fmt/format.h>
+#include <fmt/ranges.h>
 
 #include <iostream>
 
 #include "cli/commands.hpp"
 #include "cli/output.hpp"
+#include "io/end_states.hpp"
 #include "io/result_writer.hpp"
-#include "io/scene_parser.hpp"
+#include "io/scene_identity.hpp"
+#include "io/scene_reader.hpp"
+#include "io/scene_warnings.hpp"
+#include "io/scene_writer.hpp"
 #include "optics/material.hpp"
+#include "sweep/expand.hpp"
 #include "trace/planar_run.hpp"
+#include "trace/wafer_model.hpp"
 
 namespace lumtrap::cli {
 
@@ -22,22 +29,35 @@ void add_planar_command(CLI::App& app) {
     const auto out = result_folder(*opts, scene, "planar");
     refuse_existing(out, opts->overwrite);
     Results r = planar_results(scene);
-    const std::string resolved = resolved_scene_toml(scene);
-    r.summary["scene_hash"] = scene_hash(scene);
-    r.summary["tool_version"] = LUMTRAP_VERSION;
-    write_result_folder(out, {{"spectral.csv", spectral_csv(r)}, {"summary.json", summary_json(r)},
-                              {"scene.toml", resolved}},
-                        opts->overwrite);
+    r.summary.scene_hash = scene_identity(scene);
+    r.summary.tool_version = LUMTRAP_VERSION;
+    r.summary.warnings = scene_warnings(scene);
+    write_result_folder(out, result_files(r, resolved_scene_toml(scene)), opts->overwrite);
     print_summary(r, out);
   });
 }
 
 void add_check_command(CLI::App& app) {
-  auto* cmd = app.add_subcommand("check", "validate a scene file and print it with every default filled in");
+  auto* cmd = app.add_subcommand(
+      "check", "validate a scene file (print it with every default filled in) or a sweep file (every variant)");
   auto scene_file = std::make_shared<std::string>();
-  cmd->add_option("scene", *scene_file, "scene file (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("scene", *scene_file, "scene file or sweep file (TOML)")->required()->check(CLI::ExistingFile);
   cmd->callback([scene_file] {
-    const Scene scene = parse_scene_file(*scene_file);
+    const toml::table table = read_scene_table(*scene_file);
+    if (table.contains("sweep")) {
+      TileHeightCache cache;
+      const Sweep sweep =
+          expand_sweep(table, *scene_file, [&cache](const Scene& s) { check_wafer_geometry(s, &cache); });
+      std::cout << fmt::format("{}: {} sweep variants, all valid (swept keys: {})\n", *scene_file,
+                               sweep.variants.size(), fmt::join(sweep.keys, ", "));
+      return;
+    }
+    const Scene scene = scene_from_table(table, *scene_file);
+    check_wafer_geometry(scene);
+    for (const auto& w : scene_warnings(scene)) std::cerr << "lumtrap: warning: " << w << "\n";
+    const auto planar = planar_solver_problem(scene);
+    std::cerr << fmt::format("lumtrap check: {} is valid; planar solver: {}\n", *scene_file,
+                             planar ? "not applicable (" + *planar + ")" : "applicable (lumtrap planar)");
     std::cout << resolved_scene_toml(scene);
   });
 }
@@ -53,6 +73,15 @@ void add_materials_command(CLI::App& app) {
                                m.source.substr(0, 100));
     }
   });
+}
+
+}  // namespace lumtrap::cli
+
+namespace lumtrap::cli {
+
+void add_end_states_command(CLI::App& app) {
+  auto* cmd = app.add_subcommand("end-states", "print the table of end states (where each photon ends), as Markdown");
+  cmd->callback([] { std::cout << end_state_markdown(); });
 }
 
 }  // namespace lumtrap::cli

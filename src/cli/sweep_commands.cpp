@@ -1,24 +1,26 @@
 // lumtrap sweep plan|task|local|merge|status: parameter sweeps, on this
 // machine or as a SLURM job array with a dependent merge job. The folder
-// layout is described in trace/sweep_run.hpp, the [sweep] syntax in
+// layout is described in sweep/plan_folder.hpp, the [sweep] syntax in
 // docs/scene-format.md and the cluster workflow in docs/cluster.md.
 #include <fmt/format.h>
-#include <tbb/global_control.h>
-#include <tbb/info.h>
 #include <unistd.h>
 
-#include <atomic>
 #include <chrono>
-#include <csignal>
 #include <cstdlib>
 #include <iostream>
-#include <regex>
 
 #include "cli/commands.hpp"
 #include "cli/output.hpp"
-#include "io/result_writer.hpp"
-#include "io/sweep.hpp"
-#include "trace/sweep_run.hpp"
+#include "cli/stop_signal.hpp"
+#include "cli/thread_limit.hpp"
+#include "io/run_facts.hpp"
+#include "io/text_file.hpp"
+#include "sweep/expand.hpp"
+#include "sweep/merge.hpp"
+#include "sweep/run_unit.hpp"
+#include "sweep/slurm_scripts.hpp"
+#include "sweep/status.hpp"
+#include "trace/wafer_model.hpp"
 
 namespace lumtrap::cli {
 
@@ -26,16 +28,10 @@ namespace fs = std::filesystem;
 
 namespace {
 
-std::atomic<bool> g_sweep_stop{false};
-extern "C" void on_sweep_signal(int) { g_sweep_stop.store(true); }
-
 struct PlanOptions {
   std::string sweep, out;
   std::size_t per_task = 1;
-  int cpus_per_task = 1;
-  std::string time = "04:00:00";
-  std::string mem = "2G";
-  std::string partition;
+  SlurmRequests requests;
   std::uint32_t split = 1;
 };
 
@@ -55,67 +51,6 @@ fs::path self_binary() {
   return p;
 }
 
-/// Paths go into #SBATCH lines, which take no quoting.
-void require_plain_path(const fs::path& p, const char* what) {
-  const std::string s = p.string();
-  if (s.find_first_of(" \t\n\"'`$\\%;&|<>*?") != std::string::npos)
-    throw std::runtime_error(fmt::format("{} {}: contains a space or one of \"'`$\\%;&|<>*?, which #SBATCH lines "
-                                         "cannot hold; allowed: a path without them",
-                                         what, s));
-}
-
-std::string job_name(const SweepFolder& f) {
-  std::string stem = fs::path(f.source).stem().string();
-  for (char& c : stem)
-    if (!std::isalnum(static_cast<unsigned char>(c)) && c != '-' && c != '_') c = '_';
-  return "lumtrap-" + stem;
-}
-
-std::string submit_line(const SweepFolder& f) {
-  return fmt::format("A=$(sbatch --parsable {0}/submit.sbatch) && sbatch --dependency=afterok:$A "
-                     "--kill-on-invalid-dep=yes {0}/merge.sbatch",
-                     f.dir.string());
-}
-
-std::string sbatch_header(const SweepFolder& f, const PlanOptions& o, const std::string& what) {
-  std::string s = "#!/bin/bash\n";
-  s += fmt::format("# {}: lumtrap sweep of {} ({} variants, {} array tasks of {} work unit{}{}).\n", what, f.source,
-                   f.variants.size(), f.tasks, f.per_task, f.per_task == 1 ? "" : "s",
-                   f.split > 1 ? fmt::format(", each variant split into {} photon ranges", f.split) : "");
-  s += "# Written by `lumtrap sweep plan`. Submit both jobs at once (the merge runs when every\n";
-  s += "# array task has succeeded):\n";
-  s += "#   " + submit_line(f) + "\n";
-  s += "# A task stopped by the scheduler (time limit, pre-emption) keeps its checkpoints:\n";
-  s += "# submitting again skips finished variants and resumes the others with identical numbers.\n";
-  if (!o.partition.empty()) s += fmt::format("#SBATCH --partition={}\n", o.partition);
-  return s;
-}
-
-std::string submit_script(const SweepFolder& f, const PlanOptions& o, const fs::path& binary) {
-  std::string s = sbatch_header(f, o, "array job");
-  s += fmt::format("#SBATCH --job-name={}\n", job_name(f));
-  s += fmt::format("#SBATCH --array=0-{}\n", f.tasks - 1);
-  s += fmt::format("#SBATCH --cpus-per-task={}\n", o.cpus_per_task);
-  s += fmt::format("#SBATCH --time={}\n", o.time);
-  s += fmt::format("#SBATCH --mem={}\n", o.mem);
-  s += fmt::format("#SBATCH --output={}/logs/task_%a.log\n", f.dir.string());
-  s += "#SBATCH --open-mode=append\n";
-  s += fmt::format("exec '{}' sweep task '{}'\n", binary.string(), f.dir.string());
-  return s;
-}
-
-std::string merge_script(const SweepFolder& f, const PlanOptions& o, const fs::path& binary) {
-  std::string s = sbatch_header(f, o, "merge job");
-  s += fmt::format("#SBATCH --job-name={}-merge\n", job_name(f));
-  s += "#SBATCH --cpus-per-task=1\n";
-  s += fmt::format("#SBATCH --time={}\n", o.time);
-  s += fmt::format("#SBATCH --mem={}\n", o.mem);
-  s += fmt::format("#SBATCH --output={}/logs/merge.log\n", f.dir.string());
-  s += "#SBATCH --open-mode=append\n";
-  s += fmt::format("exec '{}' sweep merge '{}'\n", binary.string(), f.dir.string());
-  return s;
-}
-
 /// Threads of a task: -j, else SLURM_CPUS_PER_TASK, else every core.
 int task_threads(int requested) {
   if (requested > 0) return requested;
@@ -123,14 +58,15 @@ int task_threads(int requested) {
     const int n = std::atoi(s);
     if (n > 0) return n;
   }
-  return tbb::info::default_concurrency();
+  return 0;
 }
 
 void add_run_options(CLI::App& cmd, RunOptions& o) {
   cmd.add_option("dir", o.dir, "sweep folder (from lumtrap sweep plan)")->required()->check(CLI::ExistingDirectory);
   cmd.add_option("-j,--threads", o.threads,
-                 "threads (default: SLURM_CPUS_PER_TASK when set, else all cores; results do not depend on it)")
-      ->check(CLI::PositiveNumber);
+                 "threads, 0 = all cores (default: SLURM_CPUS_PER_TASK when set, else all cores; results do not "
+                 "depend on it)")
+      ->check(CLI::NonNegativeNumber);
   cmd.add_option("--checkpoint-every", o.checkpoint_seconds,
                  "seconds between checkpoints of a running variant (default 10)")
       ->check(CLI::NonNegativeNumber);
@@ -148,17 +84,16 @@ struct UnitTotals {
 UnitTotals run_units(const SweepFolder& f, const std::vector<std::size_t>& units, const RunOptions& o,
                      Progress* progress) {
   UnitTotals totals;
-  std::signal(SIGINT, on_sweep_signal);
-  std::signal(SIGTERM, on_sweep_signal);
+  const StopOnSignal stop;
   for (std::size_t k = 0; k < units.size(); ++k) {
-    if (g_sweep_stop.load()) {
+    if (stop.requested()) {
       totals.interrupted = true;
       break;
     }
     UnitRunOptions u;
     u.checkpoint_seconds = o.checkpoint_seconds;
     u.batch = o.batch;
-    u.stop = &g_sweep_stop;
+    u.stop = stop.flag();
     if (progress)
       u.progress = [progress, k, n = units.size()](double x) { progress->update((double(k) + x) / double(n)); };
     try {
@@ -174,14 +109,13 @@ UnitTotals run_units(const SweepFolder& f, const std::vector<std::size_t>& units
     } catch (const std::exception& e) {
       const WorkUnit w = unit_at(f, units[k]);
       std::cerr << fmt::format("lumtrap sweep: error: variant {}{}: {}", f.variants[w.variant].id,
-                               f.split > 1 ? fmt::format(" part {}/{}", w.part + 1, f.split) : "", e.what())
+                               f.split_photons > 1 ? fmt::format(" part {}/{}", w.part + 1, f.split_photons) : "",
+                               e.what())
                 << std::endl;
       ++totals.failed;
     }
     if (progress) progress->update(double(k + 1) / double(units.size()));
   }
-  std::signal(SIGINT, SIG_DFL);
-  std::signal(SIGTERM, SIG_DFL);
   return totals;
 }
 
@@ -201,43 +135,36 @@ void add_plan(CLI::App& sweep) {
   cmd->add_option("-o,--out", o->out, "sweep folder to write")->required();
   cmd->add_option("--per-task", o->per_task, "variants (work units) per array task (default 1)")
       ->check(CLI::PositiveNumber);
-  cmd->add_option("--cpus-per-task", o->cpus_per_task, "CPUs per array task (default 1)")->check(CLI::PositiveNumber);
-  cmd->add_option("--time", o->time, "time limit per array task, HH:MM:SS or D-HH:MM:SS (default 04:00:00)");
-  cmd->add_option("--mem", o->mem, "memory per array task, e.g. 500M, 2G (default 2G)");
-  cmd->add_option("--partition", o->partition, "SLURM partition (default: the cluster's default)");
+  cmd->add_option("--cpus-per-task", o->requests.cpus_per_task, "CPUs per array task (default 1)")
+      ->check(CLI::PositiveNumber);
+  cmd->add_option("--time", o->requests.time, "time limit per array task, HH:MM:SS or D-HH:MM:SS (default 04:00:00)");
+  cmd->add_option("--mem", o->requests.mem, "memory per array task, e.g. 500M, 2G (default 2G)");
+  cmd->add_option("--partition", o->requests.partition, "SLURM partition (default: the cluster's default)");
   cmd->add_option("--split-photons", o->split,
                   "split every variant into K photon ranges, each its own work unit (default 1)")
       ->check(CLI::PositiveNumber);
   cmd->callback([o] {
-    static const std::regex time_re(R"(^(\d+-)?\d+(:\d{1,2}){0,2}$)");
-    static const std::regex mem_re(R"(^\d+[KMGT]?$)");
-    if (!std::regex_match(o->time, time_re))
-      throw std::runtime_error(fmt::format("--time {}: not a SLURM time; allowed: MM, HH:MM:SS or D-HH:MM:SS, e.g. "
-                                           "04:00:00",
-                                           o->time));
-    if (!std::regex_match(o->mem, mem_re))
-      throw std::runtime_error(
-          fmt::format("--mem {}: not a SLURM memory size; allowed: a whole number with K, M, G or T, e.g. 2G", o->mem));
+    check_slurm_requests(o->requests);
     const fs::path binary = self_binary();
     const fs::path dir = fs::absolute(o->out).lexically_normal();
     require_plain_path(dir, "--out");
-    const Sweep sweep = read_sweep_file(o->sweep);  // validates every variant
-    nlohmann::ordered_json requests = {{"cpus_per_task", o->cpus_per_task},
-                                       {"time", o->time},
-                                       {"mem", o->mem},
-                                       {"partition", o->partition},
-                                       {"lumtrap", binary.string()}};
-    const SweepFolder f = write_sweep_plan(sweep, dir, SweepPlanOptions{o->per_task, o->split}, requests);
-    write_file_atomically(f.dir / "submit.sbatch", submit_script(f, *o, binary));
-    write_file_atomically(f.dir / "merge.sbatch", merge_script(f, *o, binary));
+    TileHeightCache cache;
+    const Sweep sweep =  // validates every variant
+        read_sweep_file(o->sweep, [&cache](const Scene& s) { check_wafer_geometry(s, &cache); });
+    const SweepFolder f = write_sweep_plan(sweep, dir, SweepPlanOptions{o->per_task, o->split},
+                                           slurm_requests_json(o->requests, binary));
+    write_file_atomically(f.dir / "submit.sbatch", submit_script(f, o->requests, binary));
+    write_file_atomically(f.dir / "merge.sbatch", merge_script(f, o->requests, binary));
     std::uint64_t photons = 0;
     for (const auto& v : sweep.variants)
       photons += v.scene.run.photons * v.scene.illumination.wavelengths_nm.size();
     std::cout << fmt::format("planned {} variants of {} into {}/\n", f.variants.size(), o->sweep, f.dir.string());
     std::cout << fmt::format("  {} array tasks ({} work unit{} each{}), {} CPU{}, --time {}, --mem {} per task\n",
                              f.tasks, f.per_task, f.per_task == 1 ? "" : "s",
-                             f.split > 1 ? fmt::format("; each variant in {} photon ranges", f.split) : "",
-                             o->cpus_per_task, o->cpus_per_task == 1 ? "" : "s", o->time, o->mem);
+                             f.split_photons > 1 ? fmt::format("; each variant in {} photon ranges", f.split_photons)
+                                                 : "",
+                             o->requests.cpus_per_task, o->requests.cpus_per_task == 1 ? "" : "s", o->requests.time,
+                             o->requests.mem);
     std::cout << fmt::format("  {:.3g} million photons in all; variants listed in {}/variants.csv\n", double(photons) / 1e6,
                              f.dir.string());
     if (f.tasks > 1000)
@@ -273,12 +200,11 @@ void add_task(CLI::App& sweep) {
                                "(SLURM_ARRAY_TASK_ID)");
     }
     const std::vector<std::size_t> units = units_of_task(f, task);
-    const int threads = task_threads(o->threads);
-    tbb::global_control limit(tbb::global_control::max_allowed_parallelism, std::size_t(threads));
-    char host[256] = {};
-    ::gethostname(host, sizeof host - 1);
+    const ThreadLimit limit(task_threads(o->threads), "--threads");
+    const int threads = limit.threads();
     std::cout << fmt::format("lumtrap {} sweep task {} of {} in {} on {}, {} thread{}, {} work unit{}\n",
-                             LUMTRAP_VERSION, task, f.tasks, f.dir.string(), host, threads, threads == 1 ? "" : "s",
+                             LUMTRAP_VERSION, task, f.tasks, f.dir.string(), host_name(), threads,
+                             threads == 1 ? "" : "s",
                              units.size(), units.size() == 1 ? "" : "s")
               << std::flush;
     const auto t0 = std::chrono::steady_clock::now();
@@ -298,10 +224,9 @@ void add_local(CLI::App& sweep) {
     require_same_tool_version(f);
     std::vector<std::size_t> units(unit_count(f));
     for (std::size_t u = 0; u < units.size(); ++u) units[u] = u;
-    const int threads = o->threads > 0 ? o->threads : tbb::info::default_concurrency();
-    tbb::global_control limit(tbb::global_control::max_allowed_parallelism, std::size_t(threads));
+    const ThreadLimit limit(o->threads, "--threads");
     std::cout << fmt::format("lumtrap sweep local: {} variants in {} ({} work units, {} threads)\n",
-                             f.variants.size(), f.dir.string(), units.size(), threads)
+                             f.variants.size(), f.dir.string(), units.size(), limit.threads())
               << std::flush;
     const auto t0 = std::chrono::steady_clock::now();
     UnitTotals t;
@@ -322,7 +247,7 @@ void add_merge(CLI::App& sweep) {
   cmd->callback([dir] {
     const SweepFolder f = load_sweep_folder(*dir);
     require_same_tool_version(f);
-    const MergeReport r = merge_sweep(f);
+    const MergeReport r = merge_sweep(f, [](const SweepFolder& sf, std::size_t v) { assemble_variant(sf, v); });
     std::cout << fmt::format("merged {} of {} variants into {}/merged.csv and merged.json\n", r.merged,
                              f.variants.size(), f.dir.string());
     if (r.missing.empty()) return;

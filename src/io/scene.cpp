@@ -10,4 +10,9 @@ std::string MaterialRef::describe() const {
   return id_or_path;
 }
 
+std::string Scene::where(const std::string& key) const {
+  auto it = positions.find(key);
+  return it != positions.end() ? it->second : file.string();
+}
+
 }  // namespace lumtrap

@@ -1,16 +1,17 @@
 #pragma once
 // The validated scene: plain structs, SI-free internal units (nm for
 // wavelengths and film thicknesses, µm for wafer and texture lengths,
-// radians for angles). Produced by parse_scene (scene_parser.hpp) from a
+// radians for angles). Produced by parse_scene_file (scene_reader.hpp) from a
 // TOML scene file; everything downstream reads only these structs.
 // The file format is documented in docs/scene-format.md.
 #include <cstdint>
 #include <filesystem>
+#include <map>
 #include <optional>
 #include <string>
 #include <vector>
 
-#include "geometry/textures.hpp"
+#include "geometry/texture_descriptor.hpp"
 
 namespace lumtrap {
 
@@ -28,8 +29,6 @@ struct Film {
   double thickness_nm = 0;
 };
 
-enum class TextureKind { planar, upright_pyramids, inverted_pyramids, random_pyramids };
-
 /// How thick a film is on an inclined facet, given its thickness as
 /// deposited on a planar wafer.
 enum class Conformality {
@@ -43,13 +42,9 @@ enum class SurfaceScattering {
   mixed,       ///< a fraction `diffuse_fraction` Lambertian, the rest specular
 };
 
-struct Texture {
-  TextureKind kind = TextureKind::planar;
-  double base_um = 5.0;          ///< upright/inverted: pyramid base
-  double gap_um = 0.0;           ///< upright/inverted: flat gap between pyramids
-  double facet_deg = geometry::kFacet111Deg;
-  geometry::RandomPyramidsSpec random;  ///< random_pyramids
-};
+/// A surface's texture: its kind and parameters, as its descriptor
+/// (geometry/texture_descriptor.hpp) defines them.
+using Texture = geometry::TextureParams;
 
 /// What decides reflection and transmission at a surface.
 enum class InterfaceModel {
@@ -108,6 +103,12 @@ struct RunSettings {
 
 struct Scene {
   std::filesystem::path file;         ///< where it was read from
+  /// "FILE:LINE:COL" of each value as written, by dotted key
+  /// ("wafer.thickness", "front.films[0].thickness"); for messages of checks
+  /// made after reading. Keys not written in the file are absent.
+  std::map<std::string, std::string> positions;
+  /// Where a key stands ("FILE:LINE:COL"), or the file when it was not written.
+  std::string where(const std::string& key) const;
   std::string name;                   ///< [scene] name, default: file stem
   MaterialRef ambient;                ///< medium above the front, default air n = 1
   Wafer wafer;

@@ -4,13 +4,14 @@
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
+#include <numbers>
 #include <system_error>
 #include <vector>
 
 namespace lumtrap {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+constexpr double kPi = std::numbers::pi;
 
 /// A unit word and how to convert a number given in it to the target unit:
 /// result = value * mul / div (two factors, so that e.g. nm -> um divides by
@@ -48,37 +49,23 @@ std::string_view trim(std::string_view s) {
 }
 
 double parse_in(std::string_view text, const UnitFamily& f) {
-  std::string_view s = trim(text);
-  if (s.empty()) fail(text, "empty; write a number and a unit, e.g. \"1 " + std::string(f.example) + "\"", f);
-
-  // The number: optional sign, then what std::from_chars reads in general
-  // (fixed or scientific) format. from_chars takes no '+', so handle it here.
-  bool negative = false;
-  std::string_view num = s;
-  if (num.front() == '+' || num.front() == '-') {
-    negative = num.front() == '-';
-    num.remove_prefix(1);
-    if (num.empty() || num.front() == '+' || num.front() == '-')
-      fail(text, "does not start with a number; write e.g. \"75 " + std::string(f.example) + "\"", f);
-  }
-  double value = 0;
-  auto [end, ec] = std::from_chars(num.data(), num.data() + num.size(), value,
-                                   std::chars_format::general);
-  if (ec == std::errc::invalid_argument || end == num.data())
+  const QuantityText q = split_quantity(text);
+  if (q.problem == QuantityText::empty)
+    fail(text, "empty; write a number and a unit, e.g. \"1 " + std::string(f.example) + "\"", f);
+  if (q.problem == QuantityText::no_number)
     fail(text, "does not start with a number; write e.g. \"75 " + std::string(f.example) + "\"", f);
-  if (ec == std::errc::result_out_of_range) fail(text, "number out of range", f);
-  if (!std::isfinite(value)) fail(text, "not a finite number", f);
-  if (negative) value = -value;
-
-  std::string_view unit = trim(std::string_view(end, num.data() + num.size() - end));
-  const std::string number_text(s.substr(0, s.size() - unit.size()));
-  if (unit.empty())
-    fail(text, "a bare number; write the unit: e.g. \"" + std::string(trim(number_text)) + " " +
-                   std::string(f.example) + "\"",
+  if (q.problem == QuantityText::out_of_range) fail(text, "number out of range", f);
+  if (q.unit.empty())
+    fail(text, "a bare number; write the unit: e.g. \"" + std::string(q.number_text) + " " + std::string(f.example) +
+                   "\"",
          f);
   for (const UnitEntry& u : f.units)
-    if (unit == u.word) return value * u.mul / u.div;
-  fail(text, "unit " + quoted(unit) + " is not accepted", f);
+    if (q.unit == u.word) {
+      const double value = q.number * u.mul / u.div;
+      if (!std::isfinite(value)) fail(text, "number out of range (too large in this unit)", f);
+      return value;
+    }
+  fail(text, "unit " + quoted(q.unit) + " is not accepted", f);
 }
 
 const UnitFamily& length_nm() {
@@ -125,6 +112,49 @@ const UnitFamily& current() {
 }
 
 }  // namespace
+
+QuantityText split_quantity(std::string_view text) {
+  QuantityText q;
+  const std::string_view s = trim(text);
+  if (s.empty()) {
+    q.problem = QuantityText::empty;
+    return q;
+  }
+  // The number: optional sign, then what std::from_chars reads in general
+  // (fixed or scientific) format. from_chars takes no '+', so handle it here.
+  bool negative = false;
+  std::string_view num = s;
+  if (num.front() == '+' || num.front() == '-') {
+    negative = num.front() == '-';
+    num.remove_prefix(1);
+    if (num.empty() || num.front() == '+' || num.front() == '-') {
+      q.problem = QuantityText::no_number;
+      return q;
+    }
+  }
+  auto [end, ec] = std::from_chars(num.data(), num.data() + num.size(), q.number, std::chars_format::general);
+  if (ec == std::errc::invalid_argument || end == num.data()) {
+    q.problem = QuantityText::no_number;
+    return q;
+  }
+  if (ec == std::errc::result_out_of_range || !std::isfinite(q.number)) {
+    q.problem = QuantityText::out_of_range;
+    return q;
+  }
+  if (negative) q.number = -q.number;
+  const std::string_view digits(num.data(), std::size_t(end - num.data()));
+  q.unit = trim(std::string_view(end, std::size_t(num.data() + num.size() - end)));
+  q.number_text = trim(s.substr(0, s.size() - q.unit.size()));
+  if (q.unit.empty() && digits.find_first_of(".eE") == std::string_view::npos) {
+    std::int64_t v = 0;
+    auto [iend, iec] = std::from_chars(digits.data(), digits.data() + digits.size(), v);
+    if (iec == std::errc() && iend == digits.data() + digits.size()) {
+      q.integer = true;
+      q.as_int = negative ? -v : v;
+    }
+  }
+  return q;
+}
 
 double parse_length_nm(std::string_view text) { return parse_in(text, length_nm()); }
 double parse_length_um(std::string_view text) { return parse_in(text, length_um()); }

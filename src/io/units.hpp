@@ -13,6 +13,7 @@
 //
 // Errors are UnitError; the message starts with `value "<text>"` and ends
 // with the allowed units, so that a caller can prefix file, line and key.
+#include <cstdint>
 #include <stdexcept>
 #include <string>
 #include <string_view>
@@ -22,6 +23,19 @@ namespace lumtrap {
 struct UnitError : std::runtime_error {
   using std::runtime_error::runtime_error;
 };
+
+/// A quantity's text split into its leading number and the rest (its unit),
+/// spaces around either trimmed. The number is what std::from_chars reads in
+/// general format after an optional sign. The views point into the text.
+struct QuantityText {
+  enum Problem { none, empty, no_number, out_of_range } problem = none;
+  double number = 0;
+  std::string_view number_text;  ///< as written, sign included
+  std::string_view unit;         ///< empty for a plain number
+  bool integer = false;          ///< a plain number written as an integer (no '.', no exponent)
+  std::int64_t as_int = 0;
+};
+QuantityText split_quantity(std::string_view text);
 
 /// Length in nanometres. Sign is kept (range checks belong to the caller).
 double parse_length_nm(std::string_view text);

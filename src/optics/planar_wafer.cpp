@@ -12,9 +12,9 @@
 //   S = T_f / (1 - τ² R_b R_i),
 // and
 //   R      = R_f + S τ² R_b T_i
-//   A_si   = S (1 - τ)(1 + τ R_b)
-//   A_rear = S τ A_b,  rear medium: S τ T_b
-//   A_front= Af_in + S τ² R_b Af_out.
+//   absorbed_silicon   = S (1 - τ)(1 + τ R_b)
+//   absorbed_rear_films = S τ A_b,  rear medium: S τ T_b
+//   absorbed_front_films= Af_in + S τ² R_b Af_out.
 // These add up to R_f + T_f + ΣAf_in = 1 identically.
 #include "optics/planar_wafer.hpp"
 
@@ -43,15 +43,15 @@ PlanarResult solve_one(const StackResponse& front_out, const StackResponse& rear
     S = f.T / (1.0 - round_trip);
   }
   res.R = f.R + S * tau * tau * b.R * i.T;
-  res.A_si = S * (1.0 - tau) * (1.0 + tau * b.R);
-  res.A_front.resize(f.A.size());
+  res.absorbed_silicon = S * (1.0 - tau) * (1.0 + tau * b.R);
+  res.absorbed_front_films.resize(f.A.size());
   for (std::size_t j = 0; j < f.A.size(); ++j)
-    res.A_front[j] = f.A[j] + S * tau * tau * b.R * i.A[j];
-  res.A_rear.resize(b.A.size());
-  for (std::size_t j = 0; j < b.A.size(); ++j) res.A_rear[j] = S * tau * b.A[j];
+    res.absorbed_front_films[j] = f.A[j] + S * tau * tau * b.R * i.A[j];
+  res.absorbed_rear_films.resize(b.A.size());
+  for (std::size_t j = 0; j < b.A.size(); ++j) res.absorbed_rear_films[j] = S * tau * b.A[j];
   const double into_rear_medium = S * tau * b.T;
   if (rear_medium_absorbs)
-    res.A_rear_medium = into_rear_medium;
+    res.absorbed_rear_medium = into_rear_medium;
   else
     res.T = into_rear_medium;
   return res;
@@ -60,14 +60,14 @@ PlanarResult solve_one(const StackResponse& front_out, const StackResponse& rear
 PlanarResult average(const PlanarResult& a, const PlanarResult& b) {
   PlanarResult m;
   m.R = 0.5 * (a.R + b.R);
-  m.A_si = 0.5 * (a.A_si + b.A_si);
-  m.A_rear_medium = 0.5 * (a.A_rear_medium + b.A_rear_medium);
+  m.absorbed_silicon = 0.5 * (a.absorbed_silicon + b.absorbed_silicon);
+  m.absorbed_rear_medium = 0.5 * (a.absorbed_rear_medium + b.absorbed_rear_medium);
   m.T = 0.5 * (a.T + b.T);
-  m.A_front.resize(a.A_front.size());
-  for (std::size_t j = 0; j < a.A_front.size(); ++j)
-    m.A_front[j] = 0.5 * (a.A_front[j] + b.A_front[j]);
-  m.A_rear.resize(a.A_rear.size());
-  for (std::size_t j = 0; j < a.A_rear.size(); ++j) m.A_rear[j] = 0.5 * (a.A_rear[j] + b.A_rear[j]);
+  m.absorbed_front_films.resize(a.absorbed_front_films.size());
+  for (std::size_t j = 0; j < a.absorbed_front_films.size(); ++j)
+    m.absorbed_front_films[j] = 0.5 * (a.absorbed_front_films[j] + b.absorbed_front_films[j]);
+  m.absorbed_rear_films.resize(a.absorbed_rear_films.size());
+  for (std::size_t j = 0; j < a.absorbed_rear_films.size(); ++j) m.absorbed_rear_films[j] = 0.5 * (a.absorbed_rear_films[j] + b.absorbed_rear_films[j]);
   return m;
 }
 

@@ -21,10 +21,10 @@ struct PlanarWafer {
 /// incident power and add up to 1.
 struct PlanarResult {
   double R = 0;                 ///< reflected or escaped through the front (ambient side)
-  double A_si = 0;              ///< absorbed in the silicon slab
-  std::vector<double> A_front;  ///< per front film (FilmStack order)
-  std::vector<double> A_rear;   ///< per rear film (FilmStack order)
-  double A_rear_medium = 0;     ///< entered an absorbing rear medium (k > 0, e.g. a metal)
+  double absorbed_silicon = 0;              ///< absorbed in the silicon slab
+  std::vector<double> absorbed_front_films;  ///< per front film (FilmStack order)
+  std::vector<double> absorbed_rear_films;   ///< per rear film (FilmStack order)
+  double absorbed_rear_medium = 0;     ///< entered an absorbing rear medium (k > 0, e.g. a metal)
   double T = 0;                 ///< entered a non-absorbing rear medium (k == 0)
 };
 

@@ -13,30 +13,24 @@ namespace lumtrap {
 
 namespace {
 
-nlohmann::json tally_json(const WavelengthTally& t) {
-  return {{"R_front", t.R_front},     {"R_escape", t.R_escape},   {"A_si", t.A_si},
-          {"A_front", t.A_front},     {"A_rear", t.A_rear},       {"A_rear_medium", t.A_rear_medium},
-          {"T", t.T},                 {"unresolved", t.unresolved}, {"lost", t.lost},
-          {"photons", t.photons},     {"interactions", t.interactions}, {"bulk_passes", t.bulk_passes},
-          {"depth", t.depth},         {"escape_angle", t.escape_angle}, {"rear_angle", t.rear_angle},
-          {"passes_absorbed", t.passes_absorbed}, {"R_front_hits", t.R_front_hits}};
-}
+constexpr const char* kTallyFormat = "lumtrap tallies 2";
 
-void read_vector(const nlohmann::json& j, const char* key, std::vector<std::uint64_t>& v, const std::string& file) {
-  auto got = j.at(key).get<std::vector<std::uint64_t>>();
-  if (got.size() != v.size())
-    throw std::runtime_error(fmt::format("{}: '{}' has {} entries, this scene needs {}", file, key, got.size(),
-                                         v.size()));
-  v = std::move(got);
+nlohmann::json tally_json(const WavelengthTally& t) {
+  nlohmann::json j;
+  for (const auto& [name, member] : kTallyCounters) j[std::string(name)] = t.*member;
+  for (const auto& [name, member] : kTallyVectors) j[std::string(name)] = t.*member;
+  return j;
 }
 
 }  // namespace
 
-std::string tally_set_json(const TallySet& set) {
+std::string tally_set_json(const TallySet& set, const TallyLayout& layout) {
   nlohmann::json j;
-  j["format"] = "lumtrap tallies 1";
+  j["format"] = kTallyFormat;
   j["scene_hash"] = set.scene_hash;
   j["tool_version"] = set.tool_version;
+  j["end_states"] = nlohmann::json::array();
+  for (const auto& b : layout.bins.bins) j["end_states"].push_back(b.name);
   j["tallies"] = nlohmann::json::array();
   for (const auto& t : set.tallies) j["tallies"].push_back(tally_json(t));
   return j.dump() + "\n";
@@ -46,28 +40,27 @@ TallySet tally_set_from_json(const std::string& text, const TallyLayout& layout,
   TallySet set;
   try {
     auto j = nlohmann::json::parse(text);
-    if (j.at("format") != "lumtrap tallies 1") throw std::runtime_error("unknown format");
+    const std::string format = j.value("format", std::string("(none)"));
+    if (format != kTallyFormat)
+      throw std::runtime_error(fmt::format("{}: tally format \"{}\", this lumtrap reads \"{}\" (written by another "
+                                           "lumtrap version); remove it to start afresh",
+                                           file, format, kTallyFormat));
     set.scene_hash = j.at("scene_hash");
     set.tool_version = j.at("tool_version");
+    std::vector<std::string> names;
+    for (const auto& b : layout.bins.bins) names.push_back(b.name);
+    if (j.at("end_states").get<std::vector<std::string>>() != names)
+      throw std::runtime_error(fmt::format("{}: its end states are not this scene's; remove it to start afresh", file));
     for (const auto& e : j.at("tallies")) {
       WavelengthTally t(layout);
-      t.R_front = e.at("R_front");
-      t.R_escape = e.at("R_escape");
-      t.A_si = e.at("A_si");
-      read_vector(e, "A_front", t.A_front, file);
-      read_vector(e, "A_rear", t.A_rear, file);
-      t.A_rear_medium = e.at("A_rear_medium");
-      t.T = e.at("T");
-      t.unresolved = e.at("unresolved");
-      t.lost = e.at("lost");
-      t.photons = e.at("photons");
-      t.interactions = e.at("interactions");
-      t.bulk_passes = e.at("bulk_passes");
-      read_vector(e, "depth", t.depth, file);
-      read_vector(e, "escape_angle", t.escape_angle, file);
-      read_vector(e, "rear_angle", t.rear_angle, file);
-      read_vector(e, "passes_absorbed", t.passes_absorbed, file);
-      read_vector(e, "R_front_hits", t.R_front_hits, file);
+      for (const auto& [name, member] : kTallyCounters) t.*member = e.at(std::string(name)).get<std::uint64_t>();
+      for (const auto& [name, member] : kTallyVectors) {
+        auto got = e.at(std::string(name)).get<std::vector<std::uint64_t>>();
+        if (got.size() != (t.*member).size())
+          throw std::runtime_error(fmt::format("{}: '{}' has {} entries, this scene needs {}", file, name, got.size(),
+                                               (t.*member).size()));
+        t.*member = std::move(got);
+      }
       set.tallies.push_back(std::move(t));
     }
   } catch (const nlohmann::json::exception& e) {
@@ -76,8 +69,8 @@ TallySet tally_set_from_json(const std::string& text, const TallyLayout& layout,
   return set;
 }
 
-void save_tally_set(const std::filesystem::path& file, const TallySet& set) {
-  write_file_atomically(file, tally_set_json(set));
+void save_tally_set(const std::filesystem::path& file, const TallySet& set, const TallyLayout& layout) {
+  write_file_atomically(file, tally_set_json(set, layout));
 }
 
 std::optional<TallySet> load_tally_set(const std::filesystem::path& file, const TallyLayout& layout) {
@@ -86,15 +79,6 @@ std::optional<TallySet> load_tally_set(const std::filesystem::path& file, const 
   std::stringstream ss;
   ss << in.rdbuf();
   return tally_set_from_json(ss.str(), layout, file.string());
-}
-
-std::string text_hash(const std::string& text) {
-  std::uint64_t h = 1469598103934665603ull;  // FNV-1a 64 offset basis
-  for (unsigned char c : text) {
-    h ^= c;
-    h *= 1099511628211ull;  // FNV prime
-  }
-  return fmt::format("{:016x}", h);
 }
 
 }  // namespace lumtrap

@@ -19,15 +19,14 @@ struct TallySet {
   std::vector<WavelengthTally> tallies;  ///< one per run wavelength
 };
 
-std::string tally_set_json(const TallySet& set);
-/// Throws std::runtime_error naming the file on malformed content or a layout mismatch.
+/// JSON text of the tallies, with the layout's end-state names (checked on reading).
+std::string tally_set_json(const TallySet& set, const TallyLayout& layout);
+/// Throws std::runtime_error naming the file on malformed content, another
+/// format version (e.g. from an older lumtrap) or a layout mismatch.
 TallySet tally_set_from_json(const std::string& text, const TallyLayout& layout, const std::string& file);
 
-void save_tally_set(const std::filesystem::path& file, const TallySet& set);
+void save_tally_set(const std::filesystem::path& file, const TallySet& set, const TallyLayout& layout);
 /// Empty when the file does not exist.
 std::optional<TallySet> load_tally_set(const std::filesystem::path& file, const TallyLayout& layout);
-
-/// 64-bit FNV-1a of a text, as 16 hex digits (stable across platforms).
-std::string text_hash(const std::string& text);
 
 }  // namespace lumtrap

@@ -13,11 +13,12 @@
 namespace lumtrap {
 
 double jg_sigma(const PreparedRun& run, const std::vector<WavelengthTally>& tallies) {
+  const std::size_t si = run.layout.bins.slot(EndState::absorbed_silicon);
   double var = 0;
   for (std::size_t i = 0; i < tallies.size(); ++i) {
     const auto& t = tallies[i];
     if (!t.photons) continue;
-    const double p = double(t.A_si) / double(t.photons);
+    const double p = double(t.ended[si]) / double(t.photons);
     var += run.band_weight[i] * run.band_weight[i] * p * (1 - p) / double(t.photons);
   }
   return current_mA_per_cm2(std::sqrt(var));
@@ -53,7 +54,7 @@ struct Driver {
     if (opt.checkpoint.empty()) return;
     const auto t = std::chrono::steady_clock::now();
     if (!now && std::chrono::duration<double>(t - last_save).count() < opt.checkpoint_seconds) return;
-    save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies});
+    save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies}, run.layout);
     last_save = t;
   }
 
@@ -101,7 +102,8 @@ struct Driver {
       double sum_ws = 0;
       for (std::size_t i = 0; i < nw; ++i) {
         const auto& t = tallies[i];
-        double p = double(t.A_si) / double(std::max<std::uint64_t>(t.photons, 1));
+        double p = double(t.ended[run.layout.bins.slot(EndState::absorbed_silicon)]) /
+                   double(std::max<std::uint64_t>(t.photons, 1));
         p = std::clamp(p, 0.5 / double(t.photons + 1), 1.0 - 0.5 / double(t.photons + 1));
         ws[i] = run.band_weight[i] * std::sqrt(p * (1 - p));
         sum_ws += ws[i];

@@ -7,7 +7,6 @@
 #include <memory>
 #include <vector>
 
-#include "io/result_writer.hpp"
 #include "io/results.hpp"
 #include "io/scene.hpp"
 #include "optics/spectrum.hpp"
@@ -33,10 +32,6 @@ struct PreparedRun {
 /// The spectrum the scene's illumination names.
 Spectrum scene_spectrum(const Illumination& illumination);
 
-/// Result-bin name and meaning of film k (0-based) of a surface ("front"/"rear").
-std::string film_bin_name(const std::string& surface, std::size_t k, const Film& film);
-std::string film_bin_meaning(const std::string& surface, std::size_t k, const Film& film);
-
 std::unique_ptr<PreparedRun> prepare_run(const Scene& scene, std::uint64_t variant = 0);
 
 /// Optical tables of run wavelength i.
@@ -47,18 +42,9 @@ WavelengthOptics wavelength_optics(const PreparedRun& run, std::size_t i);
 WavelengthTally trace_wavelength(const PreparedRun& run, const WavelengthOptics& optics, std::size_t i,
                                  std::uint64_t begin, std::uint64_t end);
 
-/// Fractions, standard errors and currents of the tallies (one per run wavelength).
+/// Fractions, standard errors and currents of the tallies (one per run
+/// wavelength), their histograms (generation profile, angle maps, passes)
+/// and the summary facts that the tallies and the scene give.
 Results results_from_tallies(const PreparedRun& run, const std::vector<WavelengthTally>& tallies);
-
-/// Every file of a traced run's result folder: spectral.csv, summary.json,
-/// scene.toml (the given resolved scene text) and the extra files below.
-std::vector<OutputFile> trace_result_files(const PreparedRun& run, const Results& results,
-                                           const std::vector<WavelengthTally>& tallies,
-                                           const std::string& scene_text);
-
-/// The extra files of a traced run: generation profile, escape and rear
-/// angle distributions, passes per absorbed photon (and per-wavelength depth
-/// histograms when the scene asks for them).
-std::vector<OutputFile> trace_extra_files(const PreparedRun& run, const std::vector<WavelengthTally>& tallies);
 
 }  // namespace lumtrap

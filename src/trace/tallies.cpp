@@ -5,10 +5,9 @@
 
 namespace lumtrap {
 
-TallyLayout make_tally_layout(int front_films, int rear_films, double max_depth_um) {
+TallyLayout make_tally_layout(const Scene& scene, double max_depth_um) {
   TallyLayout layout;
-  layout.front_films = front_films;
-  layout.rear_films = rear_films;
+  layout.bins = end_bin_layout(scene);
   // Log-spaced depth bins: first edge 1 nm, 20 bins per decade, up to the
   // deepest point of the wafer; plus the bin [0, 1 nm).
   layout.depth_edges_um.push_back(0.0);
@@ -26,46 +25,34 @@ TallyLayout make_tally_layout(int front_films, int rear_films, double max_depth_
 }
 
 WavelengthTally::WavelengthTally(const TallyLayout& layout)
-    : A_front(layout.front_films, 0),
-      A_rear(layout.rear_films, 0),
+    : ended(layout.bins.size(), 0),
       depth(layout.depth_edges_um.empty() ? 0 : layout.depth_edges_um.size() - 1, 0),
       escape_angle(std::size_t(layout.polar_bins) * layout.azimuth_bins, 0),
       rear_angle(std::size_t(layout.polar_bins) * layout.azimuth_bins, 0),
       passes_absorbed(layout.pass_bins, 0),
-      R_front_hits(layout.hit_bins, 0) {}
-
-namespace {
-void add_vector(std::vector<std::uint64_t>& a, const std::vector<std::uint64_t>& b) {
-  if (a.size() != b.size()) throw std::logic_error("tallies of different layouts cannot be added");
-  for (std::size_t i = 0; i < a.size(); ++i) a[i] += b[i];
-}
-}  // namespace
+      front_hits(layout.hit_bins, 0) {}
 
 WavelengthTally& WavelengthTally::operator+=(const WavelengthTally& o) {
-  R_front += o.R_front;
-  R_escape += o.R_escape;
-  A_si += o.A_si;
-  add_vector(A_front, o.A_front);
-  add_vector(A_rear, o.A_rear);
-  A_rear_medium += o.A_rear_medium;
-  T += o.T;
-  unresolved += o.unresolved;
-  lost += o.lost;
-  photons += o.photons;
-  interactions += o.interactions;
-  bulk_passes += o.bulk_passes;
-  add_vector(depth, o.depth);
-  add_vector(escape_angle, o.escape_angle);
-  add_vector(rear_angle, o.rear_angle);
-  add_vector(passes_absorbed, o.passes_absorbed);
-  add_vector(R_front_hits, o.R_front_hits);
+  for (const auto& [name, member] : kTallyCounters) this->*member += o.*member;
+  for (const auto& [name, member] : kTallyVectors) {
+    auto& a = this->*member;
+    const auto& b = o.*member;
+    if (a.size() != b.size()) throw std::logic_error("tallies of different layouts cannot be added");
+    for (std::size_t i = 0; i < a.size(); ++i) a[i] += b[i];
+  }
   return *this;
 }
 
-std::uint64_t WavelengthTally::ended() const {
-  std::uint64_t n = R_front + R_escape + A_si + A_rear_medium + T + unresolved + lost;
-  for (auto c : A_front) n += c;
-  for (auto c : A_rear) n += c;
+std::uint64_t WavelengthTally::ended_total() const {
+  std::uint64_t n = 0;
+  for (auto c : ended) n += c;
+  return n;
+}
+
+std::uint64_t ended_in(const TallyLayout& layout, const WavelengthTally& t, EndState s, int k) {
+  if (k >= 0) return t.ended[layout.bins.slot(s, k)];
+  std::uint64_t n = 0;
+  for (std::uint32_t i = 0; i < layout.bins.count[std::size_t(s)]; ++i) n += t.ended[layout.bins.first[std::size_t(s)] + i];
   return n;
 }
 

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <numbers>
 
 #include "trace/polarization.hpp"
 #include "trace/rng.hpp"
@@ -12,7 +13,7 @@ namespace lumtrap {
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
+constexpr double kPi = std::numbers::pi;
 constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr int kMaxWallCrossings = 100000;  // per zone traversal; beyond: lost
 
@@ -129,9 +130,14 @@ double wafer_z(const TraceContext& ctx, Zone zone, double z_local) {
   return zone == Zone::rear ? ctx.model->rear_origin_z + z_local : ctx.model->front_origin_z + z_local;
 }
 
+// Ends the photon in instance k of state s.
+inline void end_in(const TraceContext& ctx, WavelengthTally& t, EndState s, int k = 0) {
+  ++t.ended[ctx.layout->bins.slot(s, k)];
+}
+
 void tally_absorbed_si(const TraceContext& ctx, const Photon& ph, double x, double y, double z_wafer,
                        WavelengthTally& t) {
-  ++t.A_si;
+  end_in(ctx, t, EndState::absorbed_silicon);
   const double surface = ctx.model->front_origin_z + front_height(ctx, wrap(x, ctx.model->front.period),
                                                                   wrap(y, ctx.model->front.period));
   const double depth = std::max(0.0, surface - z_wafer);
@@ -216,7 +222,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   const bool from_inside = dn > 0;  // travelling from the silicon to the outside
   const bool in_silicon = ph.medium == Medium::silicon;
   if (from_inside != in_silicon || dn == 0.0) {
-    ++t.lost;  // the ray met the surface from the side it is not on
+    end_in(ctx, t, EndState::lost);  // the ray met the surface from the side it is not on
     return Outcome::ended;
   }
   const Eigen::Vector3d m = from_inside ? Eigen::Vector3d(-nout) : nout;  // normal on the incident side
@@ -280,7 +286,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   if (xi <= R + T || table.layers == 0) {  // transmission (no films: nothing else can happen)
     const bool to_outside = from_inside;
     if (to_outside && so.outside_absorbs) {
-      ++t.A_rear_medium;  // only the rear medium can absorb (a metal)
+      end_in(ctx, t, EndState::absorbed_rear_medium);  // only the rear medium can absorb (a metal)
       return Outcome::ended;
     }
     if (diffuse) {
@@ -306,10 +312,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   // absorbed in one of the films
   const int layer = table.pick_absorbing_layer(cos_i, ws, wp, rng.uniform());
-  if (front)
-    ++t.A_front[layer];
-  else
-    ++t.A_rear[layer];
+  end_in(ctx, t, front ? EndState::absorbed_front_film : EndState::absorbed_rear_film, layer);
   return Outcome::ended;
 }
 
@@ -404,7 +407,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
     }
 
     if (ph.interactions >= ctx.max_bounces) {
-      ++t.unresolved;
+      end_in(ctx, t, EndState::unresolved);
       return;
     }
     const bool front = ph.zone == Zone::front;
@@ -433,11 +436,11 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
       case ZoneExit::top:
         if (front && ph.medium == Medium::outside_front) {
           if (ph.entered) {
-            ++t.R_escape;
+            end_in(ctx, t, EndState::escaped_front);
             ++t.escape_angle[angle_bin(L, ph.d.z(), ph.d.x(), ph.d.y())];
           } else {
-            ++t.R_front;
-            ++t.R_front_hits[std::min(ph.interactions, L.hit_bins - 1)];
+            end_in(ctx, t, EndState::reflected_front);
+            ++t.front_hits[std::min(ph.interactions, L.hit_bins - 1)];
           }
           return;
         }
@@ -445,7 +448,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
           ph.zone = Zone::bulk_up;
           break;
         }
-        ++t.lost;
+        end_in(ctx, t, EndState::lost);
         return;
       case ZoneExit::bottom:
         if (front && ph.medium == Medium::silicon) {
@@ -453,13 +456,13 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
           break;
         }
         if (!front && ph.medium == Medium::outside_rear) {
-          ++t.T;
+          end_in(ctx, t, EndState::transmitted_rear);
           return;
         }
-        ++t.lost;
+        end_in(ctx, t, EndState::lost);
         return;
       case ZoneExit::lost:
-        ++t.lost;
+        end_in(ctx, t, EndState::lost);
         return;
     }
   }

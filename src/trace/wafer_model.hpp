@@ -10,6 +10,7 @@
 // where "reference level" follows Wafer::thickness_convention (mean height,
 // base = lowest level, or apex = highest point of each texture).
 #include <cstdint>
+#include <utility>
 #include <vector>
 
 #include <Eigen/Core>
@@ -39,7 +40,8 @@ struct WaferModel {
 };
 
 /// Builds the meshes of the scene's textures and places them. Throws
-/// std::invalid_argument when the wafer is too thin for its textures.
+/// SceneError naming wafer.thickness when the wafer is too thin for its
+/// textures.
 /// A surface with conformal films has one facet class (film thickness does
 /// not depend on tilt); with directional films, one class per distinct tilt.
 WaferModel build_wafer_model(const Scene& scene);
@@ -52,8 +54,20 @@ WaferModel build_wafer_model(const Scene& scene);
 WaferModel build_wafer_geometry(const Scene& scene);
 void add_facet_normals(WaferModel& model, const Scene& scene);
 
-/// Texture mesh of one surface as the scene describes it (front or rear),
-/// in the texture's own frame (height field, z >= 0).
-geometry::TileMesh texture_mesh(const Texture& texture);
+/// The heights of a texture tile that place it in the wafer (its own frame).
+struct TileHeights {
+  double period = 0, min_z = 0, max_z = 0, mean_z = 0;
+};
+TileHeights tile_heights(const geometry::TileMesh& mesh);
+
+/// Meshes of equal textures, built once (e.g. for the variants of a sweep).
+struct TileHeightCache {
+  std::vector<std::pair<Texture, TileHeights>> entries;
+};
+
+/// What build_wafer_geometry would refuse, found without building a ray
+/// tracing scene: builds the texture meshes (or takes their heights from
+/// `cache`) and throws SceneError when the wafer is too thin for them.
+void check_wafer_geometry(const Scene& scene, TileHeightCache* cache = nullptr);
 
 }  // namespace lumtrap

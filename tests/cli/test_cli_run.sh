@@ -42,7 +42,7 @@ import json
 j = json.load(open("out1/summary.json"))
 s = j["J_G_mA_cm2"] + sum(v["mA_cm2"] for v in j["losses"].values())
 assert abs(s - j["J_max_mA_cm2"]) < 1e-9, (s, j["J_max_mA_cm2"])
-assert abs(j["closure_J_G_plus_losses_minus_J_max_mA_cm2"]) < 1e-9
+assert abs(j["closure_mA_cm2"]) < 1e-9
 assert j["photons"] == 9 * 2000
 PY
 ok "run writes the result folder; J_G + losses = J_max"

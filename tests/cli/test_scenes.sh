@@ -20,7 +20,7 @@ for scene in "$SRC"/scenes/*.toml; do
   python3 - "$W/$name/spectral.csv" <<'PY' || { echo "FAIL: $name has unresolved photons" >&2; exit 1; }
 import csv, sys
 rows = list(csv.DictReader(l for l in open(sys.argv[1]) if not l.startswith("#")))
-bad = [r["wavelength_nm"] for r in rows if float(r["unresolved"]) >= 1e-4]
+bad = [r["wavelength [nm]"] for r in rows if float(r["unresolved"]) >= 1e-4]
 sys.exit(1 if bad else 0)
 PY
   echo "ok: run $name"

@@ -83,9 +83,9 @@ grep -q "^exec '/.*' sweep task '$WORK/A'$" A/submit.sbatch || fail "submit.sbat
 "$BIN" sweep local A -j 2 > local_a.txt 2>&1 || { cat local_a.txt; fail "local A failed"; }
 "$BIN" sweep merge A > merge_a.txt 2>&1 || { cat merge_a.txt; fail "merge A failed"; }
 [ "$(wc -l < A/merged.csv)" -eq $((NV + 1)) ] || fail "merged.csv has $(wc -l < A/merged.csv) lines, expected $((NV + 1))"
-head -1 A/merged.csv | grep -q '^id,wafer.thickness \[um\],front.films\[0\].thickness \[nm\],J_G_mA_cm2,J_G_sigma_mA_cm2,R_front_mA_cm2,' ||
+head -1 A/merged.csv | grep -q '^id,wafer.thickness \[um\],front.films\[0\].thickness \[nm\],J_G \[mA/cm2\],J_G_sigma \[mA/cm2\],reflected_front \[mA/cm2\],' ||
   fail "merged.csv header: $(head -1 A/merged.csv)"
-head -1 A/merged.csv | grep -q ',J_max_mA_cm2,photons$' || fail "merged.csv header lacks J_max/photons"
+head -1 A/merged.csv | grep -q ',J_max \[mA/cm2\],photons$' || fail "merged.csv header lacks J_max/photons"
 grep -q '"complete": true' A/merged.json || fail "merged.json does not say complete"
 for f in spectral.csv summary.json scene.toml generation.csv tallies.json; do
   [ -f "A/variants/v0003/result/$f" ] || fail "result folder lacks $f"

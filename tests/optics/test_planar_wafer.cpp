@@ -17,9 +17,9 @@ namespace {
 constexpr double kPi = 3.14159265358979323846;
 
 double total(const PlanarResult& r) {
-  return r.R + r.A_si + r.A_rear_medium + r.T +
-         std::accumulate(r.A_front.begin(), r.A_front.end(), 0.0) +
-         std::accumulate(r.A_rear.begin(), r.A_rear.end(), 0.0);
+  return r.R + r.absorbed_silicon + r.absorbed_rear_medium + r.T +
+         std::accumulate(r.absorbed_front_films.begin(), r.absorbed_front_films.end(), 0.0) +
+         std::accumulate(r.absorbed_rear_films.begin(), r.absorbed_rear_films.end(), 0.0);
 }
 
 PlanarWafer bare_wafer(cplx ambient, cplx si, double thickness_nm, cplx rear) {
@@ -80,7 +80,7 @@ double bare_interface_R(double n1, cplx n2, double c1, bool p) {
 }
 
 struct Expected {
-  double R, A_si, A_metal, A_film;
+  double R, absorbed_silicon, A_metal, A_film;
 };
 
 // Follows the power pass by pass (no closed-form series) until < 1e-18.
@@ -97,11 +97,11 @@ Expected film_si_metal(cplx n_film, double d_film, cplx n_si, double W, cplx n_m
   Expected e{front.R, 0.0, 0.0, front.A};
   double down = front.T;  // power leaving the front surface downwards
   while (down > 1e-18) {
-    e.A_si += down * (1.0 - tau);
+    e.absorbed_silicon += down * (1.0 - tau);
     const double at_rear = down * tau;
     e.A_metal += at_rear * (1.0 - R_rear);
     const double up = at_rear * R_rear;
-    e.A_si += up * (1.0 - tau);
+    e.absorbed_silicon += up * (1.0 - tau);
     const double at_front = up * tau;
     e.R += at_front * inside.T;
     e.A_film += at_front * inside.A;
@@ -138,15 +138,15 @@ TEST(PlanarWafer, FilmSiliconMetalMatchesClosedForm) {
         const PlanarResult r =
             solve_planar_wafer(w, k.lambda, c0, p ? Polarization::p : Polarization::s);
         EXPECT_NEAR(r.R, e.R, 1e-10) << k.lambda << " " << deg << " p=" << p;
-        EXPECT_NEAR(r.A_si, e.A_si, 1e-10) << k.lambda << " " << deg << " p=" << p;
-        EXPECT_NEAR(r.A_rear_medium, e.A_metal, 1e-10) << k.lambda << " " << deg << " p=" << p;
-        ASSERT_EQ(r.A_front.size(), 1u);
-        EXPECT_NEAR(r.A_front[0], e.A_film, 1e-10) << k.lambda << " " << deg << " p=" << p;
+        EXPECT_NEAR(r.absorbed_silicon, e.absorbed_silicon, 1e-10) << k.lambda << " " << deg << " p=" << p;
+        EXPECT_NEAR(r.absorbed_rear_medium, e.A_metal, 1e-10) << k.lambda << " " << deg << " p=" << p;
+        ASSERT_EQ(r.absorbed_front_films.size(), 1u);
+        EXPECT_NEAR(r.absorbed_front_films[0], e.A_film, 1e-10) << k.lambda << " " << deg << " p=" << p;
         EXPECT_EQ(r.T, 0.0);  // metal rear medium: what enters is absorbed
-        EXPECT_TRUE(r.A_rear.empty());
+        EXPECT_TRUE(r.absorbed_rear_films.empty());
         EXPECT_NEAR(total(r), 1.0, 1e-12);
         if (k.film.imag() > 0.0) {
-          EXPECT_GT(r.A_front[0], 1e-4);
+          EXPECT_GT(r.absorbed_front_films[0], 1e-4);
         }
       }
     }
@@ -180,8 +180,8 @@ TEST(PlanarWafer, IntermediateIncoherentLayer) {
                                             Polarization::unpolarized);
   EXPECT_NEAR(r.R, incoherent, 1e-12);
   EXPECT_NEAR(r.T, 1.0 - incoherent, 1e-12);
-  EXPECT_EQ(r.A_si, 0.0);
-  EXPECT_EQ(r.A_rear_medium, 0.0);
+  EXPECT_EQ(r.absorbed_silicon, 0.0);
+  EXPECT_EQ(r.absorbed_rear_medium, 0.0);
 }
 
 // Non-absorbing slab in air: R_total = 2R/(1 + R), T_total = (1 - R)/(1 + R)
@@ -193,7 +193,7 @@ TEST(PlanarWafer, LosslessSlabInAir) {
   const PlanarResult r = solve_planar_wafer(w, 1000.0, 1.0, Polarization::unpolarized);
   EXPECT_NEAR(r.R, 2.0 * R / (1.0 + R), 1e-12);
   EXPECT_NEAR(r.T, (1.0 - R) / (1.0 + R), 1e-12);
-  EXPECT_EQ(r.A_si, 0.0);
+  EXPECT_EQ(r.absorbed_silicon, 0.0);
 
   const double c0 = std::cos(50.0 * kPi / 180.0);
   for (bool p : {false, true}) {
@@ -206,7 +206,7 @@ TEST(PlanarWafer, LosslessSlabInAir) {
 // Beer-Lambert attenuation along the refracted path (α = 4πk/λ, path
 // W / cos θ_Si with Snell on real indices; common practice): a rear medium
 // equal to the silicon's real index reflects nothing, so
-// A_si = T_f (1 - τ) and T = T_f τ.
+// absorbed_silicon = T_f (1 - τ) and T = T_f τ.
 TEST(PlanarWafer, BeerLambertAlongRefractedPath) {
   const cplx si(3.6, 0.002);
   const double lambda = 1000.0, W = 100000.0;
@@ -219,7 +219,7 @@ TEST(PlanarWafer, BeerLambertAlongRefractedPath) {
       const PlanarResult r = solve_planar_wafer(w, lambda, c0, p ? Polarization::p : Polarization::s);
       const StackResponse f = solve_stack(w.front, lambda, c0, Incidence::from_a);
       const double Tf = p ? f.p.T : f.s.T;
-      EXPECT_NEAR(r.A_si, Tf * (1.0 - tau), 1e-13);
+      EXPECT_NEAR(r.absorbed_silicon, Tf * (1.0 - tau), 1e-13);
       EXPECT_NEAR(r.T, Tf * tau, 1e-13);
       EXPECT_NEAR(r.R, p ? f.p.R : f.s.R, 1e-15);
     }
@@ -237,12 +237,12 @@ TEST(PlanarWafer, ObliqueIncidencePolarizations) {
     const PlanarResult p = solve_planar_wafer(w, 800.0, c0, Polarization::p);
     const PlanarResult u = solve_planar_wafer(w, 800.0, c0, Polarization::unpolarized);
     EXPECT_GT(std::abs(s.R - p.R), 1e-2) << deg;
-    EXPECT_GT(std::abs(s.A_si - p.A_si), 1e-3) << deg;
+    EXPECT_GT(std::abs(s.absorbed_silicon - p.absorbed_silicon), 1e-3) << deg;
     EXPECT_NEAR(u.R, 0.5 * (s.R + p.R), 1e-15);
-    EXPECT_NEAR(u.A_si, 0.5 * (s.A_si + p.A_si), 1e-15);
-    EXPECT_NEAR(u.A_rear_medium, 0.5 * (s.A_rear_medium + p.A_rear_medium), 1e-15);
-    EXPECT_NEAR(u.A_front[0], 0.5 * (s.A_front[0] + p.A_front[0]), 1e-15);
-    for (int j = 0; j < 2; ++j) EXPECT_NEAR(u.A_rear[j], 0.5 * (s.A_rear[j] + p.A_rear[j]), 1e-15);
+    EXPECT_NEAR(u.absorbed_silicon, 0.5 * (s.absorbed_silicon + p.absorbed_silicon), 1e-15);
+    EXPECT_NEAR(u.absorbed_rear_medium, 0.5 * (s.absorbed_rear_medium + p.absorbed_rear_medium), 1e-15);
+    EXPECT_NEAR(u.absorbed_front_films[0], 0.5 * (s.absorbed_front_films[0] + p.absorbed_front_films[0]), 1e-15);
+    for (int j = 0; j < 2; ++j) EXPECT_NEAR(u.absorbed_rear_films[j], 0.5 * (s.absorbed_rear_films[j] + p.absorbed_rear_films[j]), 1e-15);
     for (const PlanarResult* r : {&s, &p, &u}) EXPECT_NEAR(total(*r), 1.0, 1e-12);
   }
 }
@@ -269,11 +269,11 @@ TEST(PlanarWafer, FractionsAddUpToOne) {
         const PlanarResult r = solve_planar_wafer(w, lambda, c0, pol);
         worst = std::max(worst, std::abs(total(r) - 1.0));
         ASSERT_NEAR(total(r), 1.0, 1e-12) << trial;
-        EXPECT_GE(r.A_si, 0.0);
+        EXPECT_GE(r.absorbed_silicon, 0.0);
         if (w.rear.n_b.imag() > 0.0) {
           EXPECT_EQ(r.T, 0.0);
         } else {
-          EXPECT_EQ(r.A_rear_medium, 0.0);
+          EXPECT_EQ(r.absorbed_rear_medium, 0.0);
         }
       }
     }

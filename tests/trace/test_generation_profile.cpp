@@ -8,6 +8,7 @@
 
 #include <sstream>
 
+#include "io/result_files.hpp"
 #include "trace_test_util.hpp"
 
 namespace lumtrap {
@@ -34,7 +35,7 @@ wavelengths = ["700 nm"]
   const auto optics = wavelength_optics(*run, 0);
   const std::uint64_t N = 100000;
   const WavelengthTally t = trace_wavelength(*run, optics, 0, 0, N);
-  EXPECT_EQ(t.R_front + t.R_escape, 0u);  // nothing reflected anywhere
+  EXPECT_EQ(ended_in(run->layout, t, EndState::reflected_front) + ended_in(run->layout, t, EndState::escaped_front), 0u);  // nothing reflected anywhere
   const double a = optics.alpha_per_um;
   const auto& edges = run->layout.depth_edges_um;
   for (std::size_t b = 0; b + 1 < edges.size(); ++b) {
@@ -44,12 +45,12 @@ wavelengths = ["700 nm"]
         << "bin " << edges[b] << "-" << edges[b + 1] << " um";
   }
   // total absorbed = 1 - e^{-αW}
-  EXPECT_NEAR(double(t.A_si) / N, 1 - std::exp(-a * 50.0), 4 * test::sigma_of(t.A_si, N));
+  EXPECT_NEAR(double(ended_in(run->layout, t, EndState::absorbed_silicon)) / N, 1 - std::exp(-a * 50.0), 4 * test::sigma_of(ended_in(run->layout, t, EndState::absorbed_silicon), N));
 
   // q ∫ G dz from generation.csv equals J_G of the summary.
   const Results r = results_from_tallies(*run, {t});
   double qG = 0;
-  for (const auto& f : trace_extra_files(*run, {t})) {
+  for (const auto& f : result_files(r, "")) {
     if (f.name != "generation.csv") continue;
     std::istringstream in(f.content);
     std::string line;
@@ -61,7 +62,7 @@ wavelengths = ["700 nm"]
     }
   }
   const double j_from_g = 1.602176634e-19 * qG * 1e3;  // mA/cm²
-  EXPECT_NEAR(j_from_g, r.bin("A_si").current_mA_cm2, 1e-6 * r.bin("A_si").current_mA_cm2);
+  EXPECT_NEAR(j_from_g, r.bin("absorbed_silicon").current_mA_cm2, 1e-6 * r.bin("absorbed_silicon").current_mA_cm2);
 }
 
 }  // namespace

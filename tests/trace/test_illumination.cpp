@@ -55,8 +55,8 @@ TEST(Illumination, DiffuseLightMatchesHemisphereIntegralOfPlanarSolver) {
   for (const auto& b : expected.bins)
     for (std::size_t i = 0; i < b.fraction.size(); ++i) {
       const double p = std::clamp(b.fraction[i], 0.0, 1.0);  // exact values may be -1e-17
-      EXPECT_NEAR(traced.bin(b.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4)
-          << b.name << " at " << traced.wavelength_nm[i] << " nm";
+      EXPECT_NEAR(traced.bin(b.bin.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4)
+          << b.bin.name << " at " << traced.wavelength_nm[i] << " nm";
     }
 }
 
@@ -70,7 +70,7 @@ TEST(Illumination, AzimuthDoesNotMatterOnAPlanarWafer) {
   for (const auto& b : exact.bins)
     for (std::size_t i = 0; i < b.fraction.size(); ++i) {
       const double p = std::clamp(b.fraction[i], 0.0, 1.0);  // exact values may be -1e-17
-      EXPECT_NEAR(traced.bin(b.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4) << b.name;
+      EXPECT_NEAR(traced.bin(b.bin.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4) << b.bin.name;
     }
 }
 
@@ -94,7 +94,7 @@ TEST(Illumination, UserSpectrumFileGivesTheSameCurrentsAsTheSameBuiltinData) {
       test::scene_from_text(std::string(kBody) + "spectrum = \"my_spectrum.csv\"\n", "user"));
   ASSERT_EQ(builtin.bins.size(), user.bins.size());
   for (std::size_t b = 0; b < builtin.bins.size(); ++b)
-    EXPECT_NEAR(user.bins[b].current_mA_cm2, builtin.bins[b].current_mA_cm2, 1e-12) << builtin.bins[b].name;
+    EXPECT_NEAR(user.bins[b].current_mA_cm2, builtin.bins[b].current_mA_cm2, 1e-12) << builtin.bins[b].bin.name;
   EXPECT_NEAR(user.J_max_mA_cm2, builtin.J_max_mA_cm2, 1e-12);
 }
 

@@ -62,12 +62,12 @@ TEST(LambertianLimit, TracerReproducesGreensExactAbsorptance) {
       const auto optics = wavelength_optics(*run, i);
       const double aW = optics.alpha_per_um * scene.wafer.thickness_um;
       const double exact = green_absorptance(aW, optics.n_bulk);
-      const double traced = double(tallies[i].A_si) / double(N);
+      const double traced = double(ended_in(run->layout, tallies[i], EndState::absorbed_silicon)) / double(N);
       std::cout << fmt::format("W = {}, {} nm: A traced {:.4f}, exact {:.4f}\n", W,
                                scene.illumination.wavelengths_nm[i], traced, exact);
-      EXPECT_NEAR(traced, exact, 4.0 * test::sigma_of(tallies[i].A_si, N)) << W << " " << i;
-      EXPECT_EQ(tallies[i].R_front, 0u);  // all light enters
-      EXPECT_EQ(tallies[i].lost, 0u);
+      EXPECT_NEAR(traced, exact, 4.0 * test::sigma_of(ended_in(run->layout, tallies[i], EndState::absorbed_silicon), N)) << W << " " << i;
+      EXPECT_EQ(ended_in(run->layout, tallies[i], EndState::reflected_front), 0u);  // all light enters
+      EXPECT_EQ(ended_in(run->layout, tallies[i], EndState::lost), 0u);
     }
   }
 }
@@ -81,17 +81,17 @@ TEST(LambertianLimit, WeakAbsorptionPathEnhancementIsFourNSquared) {
   auto run = prepare_run(scene);
   const std::uint64_t N = 200000;
   const auto t = test::trace_all(*run, N)[0];
-  const double A = double(t.A_si) / double(N);
+  const double A = double(ended_in(run->layout, t, EndState::absorbed_silicon)) / double(N);
   const double enhancement = A / aW;
   std::cout << fmt::format("path enhancement: traced {:.2f} (± {:.2f}), 4n² = {:.2f}, Green exact {:.2f}\n",
-                           enhancement, test::sigma_of(t.A_si, N) / aW, 4 * n * n,
+                           enhancement, test::sigma_of(ended_in(run->layout, t, EndState::absorbed_silicon), N) / aW, 4 * n * n,
                            green_absorptance(aW, n) / aW);
   // Green's exact value tends to the 4n² limit (within 2 % at this αW, within
   // 0.1 % at αW = 1e-6) ...
   EXPECT_NEAR(green_absorptance(aW, n) / aW, 4 * n * n, 0.02 * 4 * n * n);
   EXPECT_NEAR(green_absorptance(1e-6, n) / 1e-6, 4 * n * n, 0.001 * 4 * n * n);
   // ... and the tracer matches it statistically.
-  EXPECT_NEAR(A, green_absorptance(aW, n), 4.0 * test::sigma_of(t.A_si, N));
+  EXPECT_NEAR(A, green_absorptance(aW, n), 4.0 * test::sigma_of(ended_in(run->layout, t, EndState::absorbed_silicon), N));
 }
 
 TEST(LambertianLimit, PhotogeneratedCurrentOfTheShippedLimitScenes) {
@@ -110,7 +110,7 @@ TEST(LambertianLimit, PhotogeneratedCurrentOfTheShippedLimitScenes) {
                                                             optics.n_bulk);
     }
     const double exact = current_mA_per_cm2(exact_flux);
-    const ResultBin& jg = r.bin("A_si");
+    const ResultBin& jg = r.bin("absorbed_silicon");
     std::cout << fmt::format("Lambertian limit {} um: J_G traced {:.3f} ± {:.3f}, exact {:.3f} mA/cm2 (J_max {:.3f})\n",
                              W, jg.current_mA_cm2, jg.current_sigma_mA_cm2, exact, r.J_max_mA_cm2);
     EXPECT_NEAR(jg.current_mA_cm2, exact, 4 * jg.current_sigma_mA_cm2);

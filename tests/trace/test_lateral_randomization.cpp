@@ -41,7 +41,7 @@ randomize_lateral = {}
   auto run = prepare_run(scene);
   const std::uint64_t N = 40000;
   const auto t = test::trace_all(*run, N)[0];
-  return {double(t.A_si) / N, test::sigma_of(t.A_si, N)};
+  return {double(ended_in(run->layout, t, EndState::absorbed_silicon)) / N, test::sigma_of(ended_in(run->layout, t, EndState::absorbed_silicon), N)};
 }
 
 TEST(LateralRandomization, RegularTextureSwingsWithThicknessOnlyWithoutRandomization) {

@@ -94,8 +94,8 @@ polarization = "{}"
       auto run = prepare_run(scene);
       const auto t = test::trace_all(*run, N);
       for (int i = 0; i < 3; ++i) {
-        EXPECT_EQ(t[i].ended(), N);
-        R[mode][i] = double(t[i].R_front) / N;
+        EXPECT_EQ(t[i].ended_total(), N);
+        R[mode][i] = double(ended_in(run->layout, t[i], EndState::reflected_front)) / N;
       }
     }
     double mean_diff = 0, var = 0;

@@ -46,7 +46,7 @@ TEST(PrecisionMode, StopsAtTheTargetWithNeymanAllocation) {
     const auto& t = r.tallies[i];
     ASSERT_GE(t.photons, 2000u);
     if (t.photons <= 2000) continue;
-    const double p = double(t.A_si) / double(t.photons);
+    const double p = double(ended_in(run->layout, t, EndState::absorbed_silicon)) / double(t.photons);
     ratio.push_back(double(t.photons) / (run->band_weight[i] * std::sqrt(p * (1 - p))));
   }
   ASSERT_GE(ratio.size(), 2u);

@@ -50,14 +50,14 @@ void compare(const Scene& scene, std::uint64_t photons) {
   const auto tallies = test::trace_all(*run, photons);
   const Results traced = results_from_tallies(*run, tallies);
   for (const auto& b : exact.bins) {
-    const ResultBin& t = traced.bin(b.name);
+    const ResultBin& t = traced.bin(b.bin.name);
     for (std::size_t i = 0; i < b.fraction.size(); ++i) {
       // σ: the tracer's own standard error (or the binomial one of the exact
       // value when the tracer saw no photon in this bin)
       const double p = std::clamp(b.fraction[i], 0.0, 1.0);  // exact values may be -1e-17
       const double tol = 4.0 * std::max(t.sigma[i], std::sqrt(p * (1 - p) / double(photons))) + 1e-4;
       EXPECT_NEAR(t.fraction[i], b.fraction[i], tol)
-          << scene.name << " bin " << b.name << " at " << exact.wavelength_nm[i] << " nm";
+          << scene.name << " bin " << b.bin.name << " at " << exact.wavelength_nm[i] << " nm";
     }
   }
   EXPECT_EQ(traced.bin("lost").fraction, std::vector<double>(exact.wavelength_nm.size(), 0.0));

@@ -6,6 +6,7 @@
 // for an absorbing medium (Born & Wolf, Principles of Optics, 7th ed., 1999,
 // §1.5.2 and §14.2) and the field carried through every reflection.
 // Tolerance: 4σ of the tracer's binomial standard error + 1e-4.
+#include <numbers>
 #include <Eigen/Geometry>
 #include <complex>
 #include <fmt/format.h>
@@ -128,21 +129,21 @@ seed = 5
   auto run = prepare_run(scene);
   const auto tallies = test::trace_all(*run, N);
   const Material si = find_material("si_green2008");
-  const double a = scene.front.texture.facet_deg * M_PI / 180.0;
+  const double a = scene.front.texture.number("facet_angle") * std::numbers::pi / 180.0;
   for (std::size_t i = 0; i < tallies.size(); ++i) {
     const double lam = scene.illumination.wavelengths_nm[i];
     const Expected e = analytic(10.0, a, si.index_at(lam), 300);
     const auto& t = tallies[i];
-    const double R = double(t.R_front) / N, R2 = double(t.R_front_hits[2]) / N, R3 = double(t.R_front_hits[3]) / N;
+    const double R = double(ended_in(run->layout, t, EndState::reflected_front)) / N, R2 = double(t.front_hits[2]) / N, R3 = double(t.front_hits[3]) / N;
     std::cout << fmt::format("{} nm: R traced {:.5f} analytic {:.5f}; after 2 hits {:.5f} / {:.5f}; after 3 hits "
                              "{:.5f} / {:.5f}; rays with 3 hits (geometric) {:.4f}\n",
                              lam, R, e.R, R2, e.R2, R3, e.R3, e.geometric3);
-    EXPECT_NEAR(R, e.R, 4 * test::sigma_of(t.R_front, N) + 1e-4) << lam;
-    EXPECT_NEAR(R2, e.R2, 4 * test::sigma_of(t.R_front_hits[2], N) + 1e-4) << lam;
-    EXPECT_NEAR(R3, e.R3, 4 * test::sigma_of(t.R_front_hits[3], N) + 1e-4) << lam;
-    EXPECT_EQ(t.R_front_hits[0] + t.R_front_hits[1], 0u);  // normal incidence: at least two hits
-    EXPECT_LE(double(t.R_escape) / N, 1e-4);               // nothing returns from 1 mm of silicon
-    EXPECT_EQ(t.lost, 0u);
+    EXPECT_NEAR(R, e.R, 4 * test::sigma_of(ended_in(run->layout, t, EndState::reflected_front), N) + 1e-4) << lam;
+    EXPECT_NEAR(R2, e.R2, 4 * test::sigma_of(t.front_hits[2], N) + 1e-4) << lam;
+    EXPECT_NEAR(R3, e.R3, 4 * test::sigma_of(t.front_hits[3], N) + 1e-4) << lam;
+    EXPECT_EQ(t.front_hits[0] + t.front_hits[1], 0u);  // normal incidence: at least two hits
+    EXPECT_LE(double(ended_in(run->layout, t, EndState::escaped_front)) / N, 1e-4);               // nothing returns from 1 mm of silicon
+    EXPECT_EQ(ended_in(run->layout, t, EndState::lost), 0u);
   }
 }
 

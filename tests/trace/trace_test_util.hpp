@@ -9,7 +9,8 @@
 #include <string>
 #include <vector>
 
-#include "io/scene_parser.hpp"
+#include "io/scene_reader.hpp"
+#include "io/scene_writer.hpp"
 #include "trace/run.hpp"
 
 namespace lumtrap::test {

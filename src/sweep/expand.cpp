@@ -1,6 +1,6 @@
-// Sweep expansion: [sweep] table -> validated variants. See sweep.hpp and
+// Sweep expansion: [sweep] table -> validated variants. See expand.hpp and
 // docs/scene-format.md ("Sweeps").
-#include "io/sweep.hpp"
+#include "sweep/expand.hpp"
 
 #include <fmt/format.h>
 
@@ -14,7 +14,9 @@
 #include <sstream>
 #include <utility>
 
-#include "io/scene_parser.hpp"
+#include "io/scene_identity.hpp"
+#include "io/scene_reader.hpp"
+#include "io/scene_writer.hpp"
 #include "io/toml_text.hpp"
 #include "io/units.hpp"
 
@@ -67,40 +69,6 @@ std::string where(const fs::path& file, const toml::source_region& r) {
 
 // ---------------------------------------------------------------------------
 // Numbers with units.
-
-struct Quantity {
-  double number = 0;      ///< as written
-  std::string unit;       ///< as written (empty: a plain number)
-  bool integer = false;   ///< plain number written as an integer
-  std::int64_t as_int = 0;
-};
-
-/// Splits "75 nm" into 75 and "nm"; nullopt when the text does not start with a number.
-std::optional<Quantity> split_quantity(std::string_view text) {
-  std::string_view s = trim_blanks(text);
-  if (s.empty()) return std::nullopt;
-  bool negative = false;
-  std::string_view num = s;
-  if (num.front() == '+' || num.front() == '-') {
-    negative = num.front() == '-';
-    num.remove_prefix(1);
-  }
-  Quantity q;
-  auto [end, ec] = std::from_chars(num.data(), num.data() + num.size(), q.number, std::chars_format::general);
-  if (ec != std::errc() || end == num.data() || !std::isfinite(q.number)) return std::nullopt;
-  if (negative) q.number = -q.number;
-  const std::string_view digits(num.data(), std::size_t(end - num.data()));
-  q.unit = std::string(trim_blanks(std::string_view(end, std::size_t(num.data() + num.size() - end))));
-  if (q.unit.empty() && digits.find_first_of(".eE") == std::string_view::npos) {
-    std::int64_t v = 0;
-    auto [iend, iec] = std::from_chars(digits.data(), digits.data() + digits.size(), v);
-    if (iec == std::errc() && iend == digits.data() + digits.size()) {
-      q.integer = true;
-      q.as_int = negative ? -v : v;
-    }
-  }
-  return q;
-}
 
 struct UnitKind {
   const char* name;
@@ -336,41 +304,41 @@ toml::array sweep_range_values(std::string_view text) {
     range_fail(text, "FROM, TO or STEP is missing");
 
   const auto from = split_quantity(from_text);
-  if (!from) range_fail(text, fmt::format("FROM {} does not start with a number", toml_quote(from_text)));
+  if (from.problem != QuantityText::none) range_fail(text, fmt::format("FROM {} does not start with a number", toml_quote(from_text)));
 
   toml::array out;
-  if (from->unit.empty()) {
+  if (from.unit.empty()) {
     // Plain numbers: all three must be plain.
     const auto to = split_quantity(to_text), step = split_quantity(step_text);
     for (const auto& [q, t, what] : {std::tuple{&to, to_text, "TO"}, std::tuple{&step, step_text, "STEP"}})
-      if (!*q || !(*q)->unit.empty())
+      if (q->problem != QuantityText::none || !q->unit.empty())
         range_fail(text, fmt::format("{} {} is not a plain number, but FROM {} is one", what, toml_quote(t),
                                      toml_quote(from_text)));
-    if (!(step->number > 0)) range_fail(text, fmt::format("STEP {} is not > 0", toml_quote(step_text)));
-    if (to->number < from->number) range_fail(text, "TO is smaller than FROM");
-    if (from->integer && to->integer && step->integer) {
-      if ((to->as_int - from->as_int) % step->as_int != 0)
+    if (!(step.number > 0)) range_fail(text, fmt::format("STEP {} is not > 0", toml_quote(step_text)));
+    if (to.number < from.number) range_fail(text, "TO is smaller than FROM");
+    if (from.integer && to.integer && step.integer) {
+      if ((to.as_int - from.as_int) % step.as_int != 0)
         range_fail(text, "(TO - FROM) is not a whole number of STEPs");
-      const std::int64_t n = (to->as_int - from->as_int) / step->as_int + 1;
+      const std::int64_t n = (to.as_int - from.as_int) / step.as_int + 1;
       if (std::uint64_t(n) > kMaxVariants) range_fail(text, fmt::format("{} values; at most {}", n, kMaxVariants));
-      for (std::int64_t k = 0; k < n; ++k) out.push_back(from->as_int + k * step->as_int);
+      for (std::int64_t k = 0; k < n; ++k) out.push_back(from.as_int + k * step.as_int);
       return out;
     }
-    const double steps = (to->number - from->number) / step->number;
+    const double steps = (to.number - from.number) / step.number;
     if (std::abs(steps - std::round(steps)) > kRangeStepTolerance)
       range_fail(text, fmt::format("(TO - FROM)/STEP = {} is not a whole number", format_number(steps)));
     const auto n = std::size_t(std::llround(steps)) + 1;
     if (n > kMaxVariants) range_fail(text, fmt::format("{} values; at most {}", n, kMaxVariants));
     for (std::size_t k = 0; k + 1 < n; ++k)
-      out.push_back(std::strtod(rounded_text(from->number + double(k) * step->number).c_str(), nullptr));
-    out.push_back(std::strtod(rounded_text(to->number).c_str(), nullptr));
+      out.push_back(std::strtod(rounded_text(from.number + double(k) * step.number).c_str(), nullptr));
+    out.push_back(std::strtod(rounded_text(to.number).c_str(), nullptr));
     return out;
   }
 
   // Quantities: the kind is that of FROM; TO and STEP must be of the same kind.
   const UnitKind* kind = unit_kind_of(from_text);
   if (!kind)
-    range_fail(text, fmt::format("FROM {}: unit \"{}\" is not accepted", toml_quote(from_text), from->unit));
+    range_fail(text, fmt::format("FROM {}: unit \"{}\" is not accepted", toml_quote(from_text), from.unit));
   auto base = [&](std::string_view part, const char* what) {
     try {
       return kind->parse(part);
@@ -378,18 +346,18 @@ toml::array sweep_range_values(std::string_view text) {
       throw SweepError(fmt::format("value {}: {} (a {} like FROM): {}", toml_quote(text), what, kind->name, e.what()));
     }
   };
-  const double unit = base(fmt::format("1 {}", from->unit), "FROM");  // one FROM unit in base units
+  const double unit = base(fmt::format("1 {}", from.unit), "FROM");  // one FROM unit in base units
   const double to = base(to_text, "TO") / unit, step = base(step_text, "STEP") / unit;
   if (!(step > 0)) range_fail(text, fmt::format("STEP {} is not > 0", toml_quote(step_text)));
-  if (to < from->number) range_fail(text, "TO is smaller than FROM");
-  const double steps = (to - from->number) / step;
+  if (to < from.number) range_fail(text, "TO is smaller than FROM");
+  const double steps = (to - from.number) / step;
   if (std::abs(steps - std::round(steps)) > kRangeStepTolerance)
     range_fail(text, fmt::format("(TO - FROM)/STEP = {} is not a whole number", format_number(steps)));
   const auto n = std::size_t(std::llround(steps)) + 1;
   if (n > kMaxVariants) range_fail(text, fmt::format("{} values; at most {}", n, kMaxVariants));
   for (std::size_t k = 0; k + 1 < n; ++k)
-    out.push_back(rounded_text(from->number + double(k) * step) + " " + from->unit);
-  out.push_back(rounded_text(to) + " " + from->unit);
+    out.push_back(rounded_text(from.number + double(k) * step) + " " + std::string(from.unit));
+  out.push_back(rounded_text(to) + " " + std::string(from.unit));
   return out;
 }
 
@@ -437,7 +405,7 @@ void set_at_key_path(toml::table& root, std::string_view path, const toml::node&
   }
 }
 
-Sweep expand_sweep(const toml::table& root, const fs::path& file) {
+Sweep expand_sweep(const toml::table& root, const fs::path& file, const SceneCheck& check) {
   const toml::node* sweep_node = root.get("sweep");
   if (!sweep_node)
     throw SweepError(fmt::format("{}: no [sweep] table; a sweep file is a scene file with a [sweep] table of the "
@@ -490,7 +458,9 @@ Sweep expand_sweep(const toml::table& root, const fs::path& file) {
         for (std::size_t k = 0; k < axes[a].keys.size(); ++k)
           set_at_key_path(t, axes[a].keys[k], *axes[a].values[k].get(pick[a]));
       var.scene = scene_from_table(t, file, {"sweep"});
+      if (check) check(var.scene);
       var.resolved = resolved_scene_toml(var.scene);
+      var.identity = scene_identity(var.scene);
     } catch (const std::runtime_error& e) {  // SceneError, SweepError
       ++invalid;
       if (errors.size() < kMaxListedErrors) errors.push_back(fmt::format("variant {} ({}): {}", var.id, label, e.what()));
@@ -513,7 +483,9 @@ Sweep expand_sweep(const toml::table& root, const fs::path& file) {
   return out;
 }
 
-Sweep read_sweep_file(const fs::path& file) { return expand_sweep(read_scene_table(file), file); }
+Sweep read_sweep_file(const fs::path& file, const SceneCheck& check) {
+  return expand_sweep(read_scene_table(file), file, check);
+}
 
 std::string csv_field(std::string_view text) {
   if (text.find_first_of(",\"\n\r") == std::string_view::npos) return std::string(text);
@@ -531,19 +503,23 @@ ParameterTable parameter_table(const Sweep& sweep) {
     bool same = !sweep.variants.empty();
     for (const auto& v : sweep.variants) {
       const nlohmann::json& j = v.values[k].json;
-      std::optional<Quantity> q;
-      if (j.is_string()) q = split_quantity(j.get<std::string>());
-      if (!q || q->unit.empty() || !unit_kind_of(j.get<std::string>()) || (unit && *unit != q->unit)) {
+      if (!j.is_string()) {
         same = false;
         break;
       }
-      unit = q->unit;
+      const std::string& text = j.get_ref<const std::string&>();
+      const QuantityText q = split_quantity(text);
+      if (q.problem != QuantityText::none || q.unit.empty() || !unit_kind_of(text) || (unit && *unit != q.unit)) {
+        same = false;
+        break;
+      }
+      unit = std::string(q.unit);
     }
     t.headers.push_back(same ? fmt::format("{} [{}]", sweep.keys[k], *unit) : sweep.keys[k]);
     for (std::size_t v = 0; v < sweep.variants.size(); ++v) {
       const SweepValue& sv = sweep.variants[v].values[k];
       if (same)
-        t.rows[v].push_back(format_number(split_quantity(sv.json.get<std::string>())->number));
+        t.rows[v].push_back(format_number(split_quantity(sv.json.get_ref<const std::string&>()).number));
       else
         t.rows[v].push_back(sv.json.is_string() ? sv.json.get<std::string>() : sv.toml);
     }
@@ -577,7 +553,7 @@ std::string sweep_identity_text(const Sweep& sweep) {
   for (const auto& v : sweep.variants) {
     s += "=== " + v.id + "\n";
     for (const auto& sv : v.values) s += sv.key + " = " + sv.toml + "\n";
-    s += v.resolved;
+    s += "scene " + v.identity + "\n";
   }
   return s;
 }

@@ -19,6 +19,7 @@
 // naming the variant and its parameter values.
 #include <cstddef>
 #include <filesystem>
+#include <functional>
 #include <stdexcept>
 #include <string>
 #include <string_view>
@@ -48,6 +49,7 @@ struct SweepVariant {
   std::vector<SweepValue> values;   ///< one per swept key, in Sweep::keys order
   Scene scene;                      ///< validated
   std::string resolved;             ///< resolved_scene_toml(scene)
+  std::string identity;             ///< scene_identity(scene)
 };
 
 struct Sweep {
@@ -56,13 +58,17 @@ struct Sweep {
   std::vector<SweepVariant> variants;
 };
 
+/// A check of a whole scene beyond reading it (e.g. that the wafer holds
+/// its textures); throws std::runtime_error with the problem.
+using SceneCheck = std::function<void(const Scene&)>;
+
 /// read_scene_table + expand_sweep. SceneError for TOML syntax errors.
-Sweep read_sweep_file(const std::filesystem::path& file);
+Sweep read_sweep_file(const std::filesystem::path& file, const SceneCheck& check = {});
 
 /// Expands root's [sweep] table (SweepError when absent or malformed) and
-/// validates every variant. `file` names the sweep in messages and anchors
-/// relative paths, as for scene_from_table().
-Sweep expand_sweep(const toml::table& root, const std::filesystem::path& file);
+/// validates every variant (scene_from_table, then `check`). `file` names
+/// the sweep in messages and anchors relative paths, as for scene_from_table().
+Sweep expand_sweep(const toml::table& root, const std::filesystem::path& file, const SceneCheck& check = {});
 
 /// The values of a range "FROM .. TO step STEP", both ends included:
 ///   "60 nm .. 90 nm step 5 nm"   -> "60 nm", "65 nm", ..., "90 nm" (strings, in FROM's unit)
@@ -97,8 +103,8 @@ std::string variants_csv(const Sweep& sweep);
 /// A CSV field, quoted when it holds a comma, quote or line break.
 std::string csv_field(std::string_view text);
 
-/// The text that identifies a sweep: keys, ids and resolved scenes in
-/// order. Its hash (text_hash) is the sweep hash.
+/// The text that identifies a sweep: keys, ids, values and the variants'
+/// scene identities in order. Its hash (text_hash) is the sweep hash.
 std::string sweep_identity_text(const Sweep& sweep);
 
 }  // namespace lumtrap

@@ -8,8 +8,9 @@
 #include <fstream>
 #include <string>
 
-#include "io/scene_parser.hpp"
-#include "io/sweep.hpp"
+#include "io/scene_reader.hpp"
+#include "io/scene_writer.hpp"
+#include "sweep/expand.hpp"
 
 namespace fs = std::filesystem;
 using namespace lumtrap;
@@ -189,9 +190,9 @@ tile = "40 um"
   EXPECT_EQ(s.keys,
             (std::vector<std::string>{"wafer.thickness", "front.random_pyramids.min", "front.random_pyramids.max"}));
   for (std::size_t v = 0; v < 6; ++v) {
-    const auto& r = s.variants[v].scene.front.texture.random;
-    EXPECT_EQ(r.size_a_um, 1.0 + double(v % 3)) << v;
-    EXPECT_EQ(r.size_b_um, 3.0 + 2.0 * double(v % 3)) << v;
+    const auto& r = s.variants[v].scene.front.texture;
+    EXPECT_EQ(r.number("min"), 1.0 + double(v % 3)) << v;
+    EXPECT_EQ(r.number("max"), 3.0 + 2.0 * double(v % 3)) << v;
     EXPECT_EQ(s.variants[v].scene.wafer.thickness_um, v < 3 ? 120.0 : 160.0);
   }
 }
@@ -206,7 +207,7 @@ TEST(SweepExpand, ValuesOfAnyTypeAndTablesCreatedOnTheWay) {
 "ambient.material" = [{ n = 1.5, k = 0 }]
 )");
   ASSERT_EQ(s.variants.size(), 8u);
-  EXPECT_EQ(s.variants[0].scene.front.texture.base_um, 2.0);
+  EXPECT_EQ(s.variants[0].scene.front.texture.number("base"), 2.0);
   EXPECT_EQ(s.variants[0].scene.rear.films.size(), 0u);
   EXPECT_EQ(s.variants[2].scene.rear.films.size(), 1u);
   EXPECT_EQ(s.variants[1].scene.run.seed, 2u);

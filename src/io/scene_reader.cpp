@@ -1,10 +1,11 @@
-// Scene file reading, validation and resolved writing. See scene_parser.hpp
-// and docs/scene-format.md.
-#include "io/scene_parser.hpp"
+// Scene file reading and validation. See scene_reader.hpp and
+// docs/scene-format.md.
+#include "io/scene_reader.hpp"
 
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <map>
 #include <climits>
 #include <cmath>
 #include <cstdint>
@@ -13,6 +14,7 @@
 #include <utility>
 #include <vector>
 
+#include "io/scene_words.hpp"
 #include "io/toml_text.hpp"
 #include "io/units.hpp"
 #include "optics/material.hpp"
@@ -27,58 +29,6 @@ constexpr double kTwoPi = 6.28318530717958647692;
 constexpr std::size_t kMaxWavelengths = 100000;
 /// (to - from)/step may differ from a whole number by this many steps.
 constexpr double kStepTolerance = 1e-6;
-/// A random-pyramid tile must be at least this many mean pyramid sizes wide,
-/// so that a tile holds enough pyramids to sample the size distribution.
-constexpr double kMinTileOverMeanSize = 4.0;
-
-// ---------------------------------------------------------------------------
-// Enum words, shared by reading and writing.
-
-template <class E>
-using Words = std::vector<std::pair<std::string_view, E>>;
-
-const Words<TextureKind> kTextureWords = {{"planar", TextureKind::planar},
-                                          {"upright_pyramids", TextureKind::upright_pyramids},
-                                          {"inverted_pyramids", TextureKind::inverted_pyramids},
-                                          {"random_pyramids", TextureKind::random_pyramids}};
-const Words<Conformality> kConformalityWords = {{"conformal", Conformality::conformal},
-                                                {"directional", Conformality::directional}};
-const Words<SurfaceScattering> kScatteringWords = {{"specular", SurfaceScattering::specular},
-                                                   {"lambertian", SurfaceScattering::lambertian},
-                                                   {"mixed", SurfaceScattering::mixed}};
-const Words<InterfaceModel> kInterfaceWords = {{"films", InterfaceModel::films},
-                                               {"ideal", InterfaceModel::ideal}};
-const Words<bool> kPolarizationTrackingWords = {{"tracked", true}, {"averaged", false}};
-const Words<ThicknessConvention> kConventionWords = {{"mean", ThicknessConvention::mean},
-                                                     {"base", ThicknessConvention::base},
-                                                     {"apex", ThicknessConvention::apex}};
-const Words<geometry::SizeDistribution> kDistributionWords = {
-    {"fixed", geometry::SizeDistribution::fixed},
-    {"uniform", geometry::SizeDistribution::uniform},
-    {"normal", geometry::SizeDistribution::normal},
-    {"lognormal", geometry::SizeDistribution::lognormal}};
-const Words<IlluminationKind> kIlluminationWords = {{"collimated", IlluminationKind::collimated},
-                                                    {"diffuse", IlluminationKind::diffuse}};
-const Words<PolarizationKind> kPolarizationWords = {{"unpolarized", PolarizationKind::unpolarized},
-                                                    {"s", PolarizationKind::s},
-                                                    {"p", PolarizationKind::p}};
-const Words<SpectrumKind> kSpectrumWords = {{"AM1.5G", SpectrumKind::am15g},
-                                            {"AM1.5D", SpectrumKind::am15d},
-                                            {"AM0", SpectrumKind::am0}};
-
-template <class E>
-std::string_view word_of(E e, const Words<E>& words) {
-  for (const auto& [w, v] : words)
-    if (v == e) return w;
-  return "?";
-}
-
-template <class E>
-std::string word_list(const Words<E>& words) {
-  std::string s;
-  for (const auto& [w, v] : words) s += (s.empty() ? "\"" : ", \"") + std::string(w) + "\"";
-  return s;
-}
 
 std::string join(const std::vector<std::string_view>& items, std::string_view sep) {
   std::string s;
@@ -302,13 +252,6 @@ class SceneReader {
     return v;
   }
 
-  double facet_angle_deg(const toml::node& n, const std::string& key) const {
-    const double d = angle_deg(n, key);
-    if (!(d > 0 && d < 90))
-      fail_value(n, key, "out of range; allowed: 0 deg < facet angle < 90 deg (e.g. \"54.74 deg\")");
-    return d;
-  }
-
   // --- materials -------------------------------------------------------------
   MaterialRef material(const toml::node* n, const std::string& key, std::string_view fallback,
                        const toml::table& parent);
@@ -318,13 +261,14 @@ class SceneReader {
   // --- sections -----------------------------------------------------------------
   void read_wafer(const toml::table* t, Wafer& w);
   Surface read_surface(const toml::table* t, const std::string& path, MaterialRef* rear_medium);
-  Texture read_texture(const toml::table& t, const std::string& path, TextureKind kind);
-  geometry::RandomPyramidsSpec read_random(const toml::table& t, const std::string& path);
+  Texture read_texture(const toml::table& surface, const std::string& path, const toml::node* kind_node);
+  double texture_number(const toml::node& n, const std::string& key, const geometry::ParamSpec& spec) const;
   void read_illumination(const toml::table* t, Illumination& ill, std::pair<double, double>& spectrum_range,
                          std::string& spectrum_where, std::string& spectrum_shown);
   std::vector<double> read_wavelengths(const toml::node& n, const std::string& key);
   void read_run(const toml::table* t, RunSettings& run);
   void check_coverage(const std::vector<double>& wl) const;
+  void record_positions(const toml::node& n, const std::string& key, std::map<std::string, std::string>& out) const;
 };
 
 MaterialRef SceneReader::material(const toml::node* n, const std::string& key, std::string_view fallback,
@@ -387,139 +331,148 @@ void SceneReader::read_wafer(const toml::table* t, Wafer& w) {
       word_or(tb, "wafer", "thickness_convention", kConventionWords, ThicknessConvention::mean);
 }
 
-Texture SceneReader::read_texture(const toml::table& t, const std::string& path, TextureKind kind) {
+Texture SceneReader::read_texture(const toml::table& surface, const std::string& path, const toml::node* kind_node) {
+  using geometry::ParamKind;
+  using geometry::ParamSpec;
+  using geometry::TextureDescriptor;
+  const auto descriptors = geometry::texture_descriptors();
+  std::string kinds;
+  for (const TextureDescriptor* d : descriptors) kinds += (kinds.empty() ? "\"" : ", \"") + std::string(d->kind) + "\"";
+  const std::string kind_key = child_key(path, "texture");
+  const std::string kind = kind_node ? string_value(*kind_node, kind_key, "one of " + kinds) : "planar";
+  const TextureDescriptor* d = geometry::find_texture(kind);
+  if (!d) fail_value(*kind_node, kind_key, "unknown word; allowed: one of " + kinds);
+
+  // The tables of other textures are refused, naming the textures they belong to.
+  for (const TextureDescriptor* other : descriptors) {
+    if (other->table.empty() || other->table == d->table) continue;
+    const toml::node* n = surface.get(other->table);
+    if (!n) continue;
+    std::vector<std::string_view> owners;
+    for (const TextureDescriptor* e : descriptors)
+      if (e->table == other->table) owners.push_back(e->kind);
+    std::string owner_text;
+    for (std::size_t i = 0; i < owners.size(); ++i)
+      owner_text += fmt::format("{}\"{}\"", i == 0 ? "" : i + 1 == owners.size() ? " or " : ", ", owners[i]);
+    const std::string k = child_key(path, other->table);
+    fail_at(n->source(), k,
+            fmt::format("a [{}] table is allowed only with texture = {} (here texture = \"{}\")", k, owner_text, kind));
+  }
+
   Texture tex;
   tex.kind = kind;
-  const bool regular = kind == TextureKind::upright_pyramids || kind == TextureKind::inverted_pyramids;
-  const std::string texture_is = fmt::format("(here texture = \"{}\")", word_of(kind, kTextureWords));
+  if (d->table.empty()) return tex;
+  static const toml::table empty;
+  const std::string tpath = child_key(path, d->table);
+  const toml::table* t = sub_table(surface, path, d->table);
+  const toml::table& tb = t ? *t : empty;
+  std::vector<std::string_view> allowed;
+  for (const ParamSpec& p : d->params) allowed.push_back(p.key);
+  check_keys(tb, tpath, allowed);
 
-  if (const toml::table* p = sub_table(t, path, "pyramids")) {
-    const std::string k = path + ".pyramids";
-    if (!regular)
-      fail_at(p->source(), k,
-              fmt::format("a [{}] table is allowed only with texture = \"upright_pyramids\" or "
-                          "\"inverted_pyramids\" {}",
-                          k, texture_is));
-    check_keys(*p, k, {"base", "gap", "facet_angle"});
-    if (const toml::node* n = p->get("base")) tex.base_um = length_um_checked(*n, k + ".base", true, "5 um");
-    if (const toml::node* n = p->get("gap")) tex.gap_um = length_um_checked(*n, k + ".gap", false, "0 um");
-    if (const toml::node* n = p->get("facet_angle")) tex.facet_deg = facet_angle_deg(*n, k + ".facet_angle");
+  // In descriptor order, so that a key's condition (a word key) is read before it.
+  for (const ParamSpec& p : d->params) {
+    const toml::node* n = tb.get(p.key);
+    const std::string key = child_key(tpath, p.key);
+    const bool applies = geometry::param_applies(p, tex);
+    std::string condition;
+    if (!p.when_key.empty()) {
+      std::string words;
+      for (std::size_t i = 0; i < p.when_words.size(); ++i)
+        words += fmt::format("{}\"{}\"", i == 0 ? "" : i + 1 == p.when_words.size() ? " or " : ", ", p.when_words[i]);
+      condition = fmt::format("{} = {}", p.when_key, words);
+    }
+    if (n && !applies)
+      fail_value(*n, key,
+                 fmt::format("'{}' is allowed only with {} (here {} = \"{}\")", p.key, condition, p.when_key,
+                             tex.word(p.when_key)));
+    if (!applies) continue;
+    if (!n) {
+      if (p.required)
+        fail_missing(tb, key,
+                     fmt::format("{}{}, e.g. \"{}\"", p.kind == ParamKind::length_um ? "a length" : "a value",
+                                 condition.empty() ? "" : fmt::format(" with {} = \"{}\"", p.when_key,
+                                                                      tex.word(p.when_key)),
+                                 p.example));
+      if (p.kind == ParamKind::word)
+        tex.words[std::string(p.key)] = std::string(p.fallback_word);
+      else
+        tex.numbers[std::string(p.key)] = p.fallback;
+      continue;
+    }
+    if (p.kind == ParamKind::word) {
+      std::string list;
+      for (auto w : p.words) list += (list.empty() ? "\"" : ", \"") + std::string(w) + "\"";
+      const std::string& w = string_value(*n, key, "one of " + list);
+      if (std::find(p.words.begin(), p.words.end(), w) == p.words.end())
+        fail_value(*n, key, "unknown word; allowed: one of " + list);
+      tex.words[std::string(p.key)] = w;
+    } else {
+      tex.numbers[std::string(p.key)] = texture_number(*n, key, p);
+    }
   }
-  if (const toml::table* r = sub_table(t, path, "random_pyramids")) {
-    const std::string k = path + ".random_pyramids";
-    if (kind != TextureKind::random_pyramids)
-      fail_at(r->source(), k,
-              fmt::format("a [{}] table is allowed only with texture = \"random_pyramids\" {}", k, texture_is));
-    tex.random = read_random(*r, k);
-  }
+  if (d->check)
+    if (auto problem = d->check(tex)) {
+      for (const std::string& k : problem->keys)
+        if (const toml::node* n = tb.get(k)) fail_value(*n, child_key(tpath, k), problem->message);
+      const std::string& k = problem->keys.front();
+      fail_at(tb.source(), child_key(tpath, k), fmt::format("default {} (set '{}')", problem->message, k));
+    }
   return tex;
 }
 
-geometry::RandomPyramidsSpec SceneReader::read_random(const toml::table& t, const std::string& path) {
-  using geometry::SizeDistribution;
-  geometry::RandomPyramidsSpec spec;
-  check_keys(t, path,
-             {"distribution", "size", "min", "max", "mean", "sd", "min_size", "facet_angle", "flat_fraction",
-              "tile", "seed"});
-  spec.distribution = word_or(t, path, "distribution", kDistributionWords, spec.distribution);
-  const std::string dist = fmt::format("distribution = \"{}\"", word_of(spec.distribution, kDistributionWords));
-
-  // Which size keys belong to which distribution.
-  struct SizeKey {
-    std::string_view name;
-    bool used;
-    bool required;
-  };
-  const bool fixed = spec.distribution == SizeDistribution::fixed;
-  const bool uniform = spec.distribution == SizeDistribution::uniform;
-  const bool gauss = !fixed && !uniform;
-  const std::vector<SizeKey> keys = {{"size", fixed, fixed},      {"min", uniform, false},
-                                     {"max", uniform, false},     {"mean", gauss, gauss},
-                                     {"sd", gauss, gauss}};
-  for (const SizeKey& sk : keys) {
-    const toml::node* n = t.get(sk.name);
-    const std::string k = child_key(path, sk.name);
-    if (n && !sk.used) {
-      const std::string_view owner = sk.name == "size" ? "\"fixed\""
-                                     : (sk.name == "min" || sk.name == "max") ? "\"uniform\""
-                                                                              : "\"normal\" or \"lognormal\"";
-      fail_value(*n, k, fmt::format("'{}' is allowed only with distribution = {} (here {})", sk.name, owner, dist));
-    }
-    if (!n && sk.required) fail_missing(t, k, fmt::format("a length with {}, e.g. \"3 um\"", dist));
+double SceneReader::texture_number(const toml::node& n, const std::string& key, const geometry::ParamSpec& p) const {
+  using geometry::ParamKind;
+  double v = 0;
+  std::string unit, what;
+  switch (p.kind) {
+    case ParamKind::length_um:
+      v = length_um(n, key);
+      unit = " um";
+      what = "a length";
+      break;
+    case ParamKind::angle_deg:
+      v = angle_deg(n, key);
+      unit = " deg";
+      what = "an angle";
+      break;
+    case ParamKind::number:
+      v = number(n, key, fmt::format("a number, e.g. {}", p.example));
+      what = "a number";
+      break;
+    case ParamKind::integer:
+      v = double(integer(n, key, std::int64_t(std::max(p.lo, -9e15)), std::int64_t(std::min(p.hi, 9e15)),
+                         fmt::format("an integer >= {}", format_number(p.lo))));
+      return v;
+    case ParamKind::word: break;
   }
-  if (fixed) {
-    spec.size_a_um = length_um_checked(*t.get("size"), path + ".size", true, "3 um");
-  } else if (uniform) {
-    if (const toml::node* n = t.get("min")) spec.size_a_um = length_um_checked(*n, path + ".min", true, "1 um");
-    if (const toml::node* n = t.get("max")) spec.size_b_um = length_um_checked(*n, path + ".max", true, "5 um");
-    if (!(spec.size_a_um < spec.size_b_um)) {
-      const toml::node* n = t.get("max") ? t.get("max") : t.get("min");
-      fail_value(*n, n == t.get("max") ? path + ".max" : path + ".min",
-                 fmt::format("min {} is not below max {}; allowed: min < max", format_length_um(spec.size_a_um),
-                             format_length_um(spec.size_b_um)));
-    }
-  } else {
-    spec.size_a_um = length_um_checked(*t.get("mean"), path + ".mean", true, "3 um");
-    spec.size_b_um = length_um_checked(*t.get("sd"), path + ".sd", false, "1 um");
-  }
-  if (const toml::node* n = t.get("min_size"))
-    spec.min_size_um = length_um_checked(*n, path + ".min_size", true, "0.2 um");
-  {
-    // Sizes below min_size are redrawn: the distribution must reach above it
-    // (the same conditions as geometry/pyramid_sizes.cpp, reported here with
-    // the file position).
-    const char* size_key = fixed ? "size" : uniform ? "max" : "mean";
-    const bool single_size = fixed || (gauss && spec.size_b_um == 0);  // every draw is size_a
-    bool ok = true;
-    double reach = spec.size_a_um;  // the largest size the distribution gives
-    if (single_size) {
-      ok = spec.size_a_um >= spec.min_size_um;
-    } else if (uniform) {
-      reach = spec.size_b_um;
-      ok = spec.size_b_um > spec.min_size_um;
-    }  // normal / lognormal with sd > 0 reach any size
-    if (!ok) {
-      const toml::node* n = t.get("min_size") ? t.get("min_size") : t.get(size_key);
-      const std::string what = fmt::format("min_size {} is above {} = {}, and sizes below min_size are redrawn; "
-                                           "allowed: min_size below {}",
-                                           format_length_um(spec.min_size_um), size_key, format_length_um(reach), size_key);
-      if (n) fail_value(*n, n == t.get("min_size") ? path + ".min_size" : child_key(path, size_key), what);
-      fail_at(t.source(), path + ".min_size", what);
-    }
-  }
-  if (const toml::node* n = t.get("facet_angle")) spec.facet_deg = facet_angle_deg(*n, path + ".facet_angle");
-  if (const toml::node* n = t.get("flat_fraction")) {
-    spec.flat_fraction = number(*n, path + ".flat_fraction", "a number in [0, 1)");
-    if (!(spec.flat_fraction >= 0 && spec.flat_fraction < 1))
-      fail_value(*n, path + ".flat_fraction", "out of range; allowed: 0 <= flat_fraction < 1");
-  }
-  if (const toml::node* n = t.get("seed"))
-    spec.seed = static_cast<std::uint64_t>(integer(*n, path + ".seed", 0, INT64_MAX, "an integer >= 0"));
-
-  const double mean_size = uniform ? 0.5 * (spec.size_a_um + spec.size_b_um) : spec.size_a_um;
-  const toml::node* tile = t.get("tile");
-  if (tile) spec.tile_um = length_um_checked(*tile, path + ".tile", true, "50 um");
-  if (spec.tile_um < kMinTileOverMeanSize * mean_size) {
-    const std::string what = fmt::format(
-        "tile {} is smaller than {} × the mean pyramid size {}; allowed: tile >= {}", format_length_um(spec.tile_um),
-        kMinTileOverMeanSize, format_length_um(mean_size), format_length_um(kMinTileOverMeanSize * mean_size));
-    if (tile) fail_value(*tile, path + ".tile", what);
-    fail_at(t.source(), path + ".tile", "default " + what + " (set 'tile')");
-  }
-  return spec;
+  const bool lo_ok = p.lo_open ? v > p.lo : v >= p.lo;
+  const bool hi_ok = p.hi_open ? v < p.hi : v <= p.hi;
+  if (lo_ok && hi_ok) return v;
+  const std::string lo = format_number(p.lo) + unit, hi = format_number(p.hi) + unit;
+  std::string allowed;
+  if (std::isinf(p.hi))
+    allowed = fmt::format("{} {} {}, e.g. \"{}\"", what, p.lo_open ? ">" : ">=", lo, p.example);
+  else
+    allowed = fmt::format("{} {} {} {} {} (e.g. \"{}\")", lo, p.lo_open ? "<" : "<=", p.key, p.hi_open ? "<" : "<=",
+                          hi, p.example);
+  const char* problem = !lo_ok && p.lo == 0 ? (v < 0 ? "negative" : "zero") : "out of range";
+  fail_value(n, key, fmt::format("{}; allowed: {}", problem, allowed));
 }
 
 Surface SceneReader::read_surface(const toml::table* t, const std::string& path, MaterialRef* rear_medium) {
   static const toml::table empty;
   const toml::table& tb = t ? *t : empty;
-  std::vector<std::string_view> allowed = {"texture",  "conformality",    "scattering", "diffuse_fraction",
-                                           "pyramids", "random_pyramids", "films",      "interface"};
+  std::vector<std::string_view> allowed = {"texture", "conformality", "scattering", "diffuse_fraction", "films",
+                                           "interface"};
+  for (const geometry::TextureDescriptor* d : geometry::texture_descriptors())
+    if (!d->table.empty() && std::find(allowed.begin(), allowed.end(), d->table) == allowed.end())
+      allowed.push_back(d->table);
   if (rear_medium) allowed.push_back("medium");
   check_keys(tb, path, allowed);
 
   Surface s;
-  const TextureKind kind = word_or(tb, path, "texture", kTextureWords, TextureKind::planar);
-  s.texture = read_texture(tb, path, kind);
+  s.texture = read_texture(tb, path, tb.get("texture"));
   s.conformality = word_or(tb, path, "conformality", kConformalityWords, Conformality::conformal);
   s.scattering = word_or(tb, path, "scattering", kScatteringWords, SurfaceScattering::specular);
   s.interface_model = word_or(tb, path, "interface", kInterfaceWords, InterfaceModel::films);
@@ -777,6 +730,20 @@ void SceneReader::check_coverage(const std::vector<double>& wl) const {
   }
 }
 
+/// Where each value of the file stands, by dotted key ("front.films[0].thickness").
+void SceneReader::record_positions(const toml::node& n, const std::string& key,
+                                   std::map<std::string, std::string>& out) const {
+  if (const toml::table* t = n.as_table()) {
+    for (auto&& [k, v] : *t) record_positions(v, child_key(key, k.str()), out);
+  } else if (const toml::array* a = n.as_array()) {
+    for (std::size_t i = 0; i < a->size(); ++i)
+      if (a->get(i)->is_table()) record_positions(*a->get(i), fmt::format("{}[{}]", key, i), out);
+    out[key] = where(n.source());
+  } else {
+    out[key] = where(n.source());
+  }
+}
+
 Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ignored) {
   if (!ignored.count("sweep"))
     if (const toml::node* n = root.get("sweep"))
@@ -824,88 +791,8 @@ Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ig
           format_length_nm(w), wavelengths_where_, format_number(spectrum_range.first),
           format_number(spectrum_range.second)));
   check_coverage(wl);
+  record_positions(root, "", s.positions);
   return s;
-}
-
-// ---------------------------------------------------------------------------
-// Writing.
-
-std::string material_toml(const MaterialRef& m) {
-  if (m.constant) return fmt::format("{{ n = {}, k = {} }}", toml_float_text(m.n), toml_float_text(m.k));
-  return toml_quote(m.id_or_path);
-}
-
-/// The shortest wavelength text that reads back as `wl`: a range table when
-/// from/to/step regenerates the values exactly, else an array.
-std::string wavelengths_toml(const std::vector<double>& wl) {
-  if (wl.size() == 1) return toml_quote(format_length_nm(wl[0]));
-  if (wl.size() >= 2) {
-    const double from = wl.front(), to = wl.back();
-    const double intervals = static_cast<double>(wl.size() - 1);
-    for (double step : {(to - from) / intervals, wl[1] - wl[0]}) {
-      if (!(step > 0)) continue;
-      const double steps = (to - from) / step;
-      if (std::abs(steps - std::round(steps)) > kStepTolerance || std::round(steps) != intervals) continue;
-      bool same = true;
-      for (std::size_t i = 0; i + 1 < wl.size() && same; ++i)
-        same = from + static_cast<double>(i) * step == wl[i];
-      if (same)
-        return fmt::format("{{ from = {}, to = {}, step = {} }}", toml_quote(format_length_nm(from)),
-                           toml_quote(format_length_nm(to)), toml_quote(format_length_nm(step)));
-    }
-  }
-  std::string s = "[";
-  for (std::size_t i = 0; i < wl.size(); ++i) {
-    s += (i % 8 == 0) ? "\n  " : " ";
-    s += toml_quote(format_length_nm(wl[i])) + ",";
-  }
-  return s + "\n]";
-}
-
-void write_surface(std::string& out, const Surface& s, const std::string& name, const MaterialRef* medium,
-                   bool perfect_mirror = false) {
-  out += fmt::format("\n[{}]\n", name);
-  out += fmt::format("texture = \"{}\"\n", word_of(s.texture.kind, kTextureWords));
-  out += fmt::format("conformality = \"{}\"\n", word_of(s.conformality, kConformalityWords));
-  out += fmt::format("scattering = \"{}\"\n", word_of(s.scattering, kScatteringWords));
-  out += fmt::format("interface = \"{}\"\n", word_of(s.interface_model, kInterfaceWords));
-  if (s.scattering == SurfaceScattering::mixed)
-    out += fmt::format("diffuse_fraction = {}\n", toml_float_text(s.diffuse_fraction));
-  if (medium) out += fmt::format("medium = {}\n", perfect_mirror ? "\"perfect_mirror\"" : material_toml(*medium));
-
-  const Texture& t = s.texture;
-  if (t.kind == TextureKind::upright_pyramids || t.kind == TextureKind::inverted_pyramids) {
-    out += fmt::format("\n[{}.pyramids]\n", name);
-    out += fmt::format("base = {}\n", toml_quote(format_length_um(t.base_um)));
-    out += fmt::format("gap = {}\n", toml_quote(format_length_um(t.gap_um)));
-    out += fmt::format("facet_angle = {}\n", toml_quote(format_angle_deg(t.facet_deg)));
-  } else if (t.kind == TextureKind::random_pyramids) {
-    using geometry::SizeDistribution;
-    const geometry::RandomPyramidsSpec& r = t.random;
-    const auto len = [](double um) { return toml_quote(format_length_um(um)); };
-    out += fmt::format("\n[{}.random_pyramids]\n", name);
-    out += fmt::format("distribution = \"{}\"\n", word_of(r.distribution, kDistributionWords));
-    switch (r.distribution) {
-      case SizeDistribution::fixed: out += fmt::format("size = {}\n", len(r.size_a_um)); break;
-      case SizeDistribution::uniform:
-        out += fmt::format("min = {}\nmax = {}\n", len(r.size_a_um), len(r.size_b_um));
-        break;
-      case SizeDistribution::normal:
-      case SizeDistribution::lognormal:
-        out += fmt::format("mean = {}\nsd = {}\n", len(r.size_a_um), len(r.size_b_um));
-        break;
-    }
-    out += fmt::format("min_size = {}\n", len(r.min_size_um));
-    out += fmt::format("facet_angle = {}\n", toml_quote(format_angle_deg(r.facet_deg)));
-    out += fmt::format("flat_fraction = {}\n", toml_float_text(r.flat_fraction));
-    out += fmt::format("tile = {}\n", len(r.tile_um));
-    out += fmt::format("seed = {}\n", r.seed);
-  }
-  for (const Film& f : s.films) {
-    out += fmt::format("\n[[{}.films]]\n", name);
-    out += fmt::format("material = {}\n", material_toml(f.material));
-    out += fmt::format("thickness = {}\n", toml_quote(format_length_nm(f.thickness_nm)));
-  }
 }
 
 }  // namespace
@@ -929,43 +816,5 @@ Scene scene_from_table(const toml::table& t, const fs::path& file, const std::se
 }
 
 Scene parse_scene_file(const fs::path& file) { return scene_from_table(read_scene_table(file), file); }
-
-std::string resolved_scene_toml(const Scene& s) {
-  std::string out;
-  out += "# Resolved scene: every value explicit, with units; material and spectrum paths absolute.\n";
-  if (!s.file.empty()) out += fmt::format("# Read from {}\n", s.file.string());
-  out += fmt::format("\n[scene]\nname = {}\n", toml_quote(s.name));
-  out += fmt::format("\n[ambient]\nmaterial = {}\n", material_toml(s.ambient));
-  out += fmt::format("\n[wafer]\nmaterial = {}\nthickness = {}\nthickness_convention = \"{}\"\n",
-                     material_toml(s.wafer.material), toml_quote(format_length_um(s.wafer.thickness_um)),
-                     word_of(s.wafer.thickness_convention, kConventionWords));
-  write_surface(out, s.front, "front", nullptr);
-  write_surface(out, s.rear, "rear", &s.rear_medium, s.rear_perfect_mirror);
-
-  const Illumination& ill = s.illumination;
-  out += "\n[illumination]\n";
-  out += fmt::format("spectrum = {}\n", ill.spectrum == SpectrumKind::file
-                                            ? toml_quote(ill.spectrum_file.string())
-                                            : "\"" + std::string(word_of(ill.spectrum, kSpectrumWords)) + "\"");
-  out += fmt::format("kind = \"{}\"\n", word_of(ill.kind, kIlluminationWords));
-  if (ill.kind == IlluminationKind::collimated) {
-    out += fmt::format("polar_angle = {}\n", toml_quote(format_angle_rad(ill.polar_rad)));
-    out += fmt::format("azimuth = {}\n", toml_quote(format_angle_rad(ill.azimuth_rad)));
-  }
-  out += fmt::format("polarization = \"{}\"\n", word_of(ill.polarization, kPolarizationWords));
-  out += fmt::format("wavelengths = {}\n", wavelengths_toml(ill.wavelengths_nm));
-
-  const RunSettings& r = s.run;
-  out += "\n[run]\n";
-  out += fmt::format("photons = {}\nseed = {}\nmax_bounces = {}\n", r.photons, r.seed, r.max_bounces);
-  out += fmt::format("randomize_lateral = {}\nthreads = {}\ndepth_histograms = {}\n", r.randomize_lateral,
-                     r.threads, r.depth_histograms);
-  out += fmt::format("polarization = \"{}\"\n", word_of(r.track_polarization, kPolarizationTrackingWords));
-  if (r.target_jg_error > 0)
-    out += fmt::format("target_jg_error = {}\n", toml_quote(format_current_mA_cm2(r.target_jg_error)));
-  else
-    out += "# target_jg_error not set: runs exactly `photons` per wavelength\n";
-  return out;
-}
 
 }  // namespace lumtrap

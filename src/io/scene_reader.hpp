@@ -1,6 +1,6 @@
 #pragma once
 // Scene files (TOML, docs/scene-format.md) -> the validated Scene structs
-// (scene.hpp), and back.
+// (scene.hpp). The way back is scene_writer.hpp.
 //
 // Reading is split in two steps so that a sweep can edit the parsed table
 // before validation: read_scene_table() parses the TOML, scene_from_table()
@@ -44,12 +44,5 @@ Scene scene_from_table(const toml::table& t, const std::filesystem::path& file,
 /// read_scene_table + scene_from_table. A [sweep] table is an error here
 /// (such a file is run through the sweep commands).
 Scene parse_scene_file(const std::filesystem::path& file);
-
-/// The scene as TOML with every value explicit and with units: materials
-/// as ids, absolute paths or inline constants; lengths in nm / um, angles in
-/// deg (or rad where deg would not read back exactly), numbers in their
-/// shortest exact form. scene_from_table(toml::parse(text), s.file) gives a
-/// Scene equal to `s` field by field.
-std::string resolved_scene_toml(const Scene& s);
 
 }  // namespace lumtrap

@@ -1,0 +1,144 @@
+// merged.csv and merged.json. See merge.hpp.
+#include "sweep/merge.hpp"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <stdexcept>
+
+#include "io/summary.hpp"
+#include "io/text_file.hpp"
+
+namespace lumtrap {
+
+namespace fs = std::filesystem;
+using ojson = nlohmann::ordered_json;
+
+namespace {
+constexpr const char* kMergeFormat = "lumtrap sweep merge 2";
+}  // namespace
+
+MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
+  MergeReport report;
+  std::vector<std::string> foreign;
+  std::vector<std::pair<std::size_t, Summary>> rows;
+  std::vector<std::string> losses;  // loss names in order of first appearance
+  for (std::size_t v = 0; v < f.variants.size(); ++v) {
+    const SweepFolderVariant& var = f.variants[v];
+    std::string assembly_error;
+    if (!result_complete(f, v) && f.split_photons > 1 && assemble) {
+      try {
+        assemble(f, v);
+      } catch (const std::exception& e) {
+        assembly_error = e.what();
+      }
+    }
+    if (!result_complete(f, v)) {
+      VariantStatus st = variant_status(f, v);
+      if (!assembly_error.empty()) {
+        st.state = VariantState::failed;
+        st.detail = assembly_error;
+      }
+      report.missing.push_back({v, st});
+      continue;
+    }
+    Summary s;
+    try {
+      s = read_summary(result_dir(f, v) / "summary.json");
+    } catch (const std::exception& e) {
+      foreign.push_back(e.what());
+      continue;
+    }
+    if (s.sweep_hash != f.sweep_hash || s.tool_version != f.tool_version || s.variant != var.id ||
+        s.scene_hash != var.scene_hash) {
+      foreign.push_back(fmt::format("{}: variant '{}' of sweep {} by lumtrap {} (this folder: variant {} of sweep {} "
+                                    "by lumtrap {})",
+                                    result_dir(f, v).string(), s.variant, s.sweep_hash.empty() ? "?" : s.sweep_hash,
+                                    s.tool_version.empty() ? "?" : s.tool_version, var.id, f.sweep_hash,
+                                    f.tool_version));
+      continue;
+    }
+    for (const auto& l : s.losses)
+      if (std::find(losses.begin(), losses.end(), l.name) == losses.end()) losses.push_back(l.name);
+    rows.push_back({v, std::move(s)});
+  }
+  if (!foreign.empty()) {
+    std::string msg = fmt::format("refusing to merge {}: {} result{} belong{} to another sweep or lumtrap version "
+                                  "(hash check):",
+                                  f.dir.string(), foreign.size(), foreign.size() == 1 ? "" : "s",
+                                  foreign.size() == 1 ? "s" : "");
+    for (const auto& e : foreign) msg += "\n  " + e;
+    msg += "\nremove those result folders (`lumtrap sweep task` then runs the variants again) and merge again";
+    throw std::runtime_error(msg);
+  }
+
+  std::string csv = "id";
+  auto add = [&csv](const std::string& cell) {
+    csv += ',';
+    csv += csv_field(cell);
+  };
+  for (const auto& h : f.headers) add(h);
+  add("J_G [mA/cm2]");
+  add("J_G_sigma [mA/cm2]");
+  for (const auto& l : losses) {
+    add(l + " [mA/cm2]");
+    add(l + "_sigma [mA/cm2]");
+  }
+  add("J_max [mA/cm2]");
+  add("photons");
+  csv += "\n";
+  ojson j;
+  j["format"] = kMergeFormat;
+  j["sweep_hash"] = f.sweep_hash;
+  j["tool_version"] = f.tool_version;
+  j["source"] = f.source;
+  j["variant_count"] = f.variants.size();
+  j["merged"] = rows.size();
+  j["complete"] = report.missing.empty();
+  j["columns"] = f.headers;
+  j["variants"] = ojson::array();
+  for (const auto& [v, s] : rows) {
+    const SweepFolderVariant& var = f.variants[v];
+    csv += var.id;
+    for (const auto& c : var.cells) add(c);
+    add(fmt::format("{}", s.J_G_mA_cm2));
+    add(fmt::format("{}", s.J_G_sigma_mA_cm2));
+    ojson lj = ojson::object();
+    for (const auto& l : losses) {
+      if (const StateCurrent* c = find_loss(s, l)) {
+        add(fmt::format("{}", c->mA_cm2));
+        add(fmt::format("{}", c->sigma_mA_cm2));
+        lj[l] = {{"mA_cm2", c->mA_cm2}, {"sigma_mA_cm2", c->sigma_mA_cm2}};
+      } else {
+        add("");
+        add("");
+      }
+    }
+    add(fmt::format("{}", s.J_max_mA_cm2));
+    add(fmt::format("{}", s.photons));
+    csv += "\n";
+    j["variants"].push_back({{"id", var.id},
+                             {"index", var.index},
+                             {"parameters", var.parameters},
+                             {"J_G_mA_cm2", s.J_G_mA_cm2},
+                             {"J_G_sigma_mA_cm2", s.J_G_sigma_mA_cm2},
+                             {"losses", lj},
+                             {"J_max_mA_cm2", s.J_max_mA_cm2},
+                             {"photons", s.photons},
+                             {"trace_seconds", s.trace_seconds},
+                             {"peak_memory_MB", s.peak_memory_MB},
+                             {"result", fs::relative(result_dir(f, v), f.dir).string()}});
+  }
+  j["missing"] = ojson::array();
+  for (const auto& [v, st] : report.missing)
+    j["missing"].push_back({{"id", f.variants[v].id},
+                            {"state", state_name(st.state)},
+                            {"log", st.log.string()},
+                            {"detail", st.detail}});
+  write_file_atomically(f.dir / "merged.csv", csv);
+  write_file_atomically(f.dir / "merged.json", j.dump(2) + "\n");
+  report.merged = rows.size();
+  return report;
+}
+
+}  // namespace lumtrap

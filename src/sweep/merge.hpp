@@ -1,0 +1,32 @@
+#pragma once
+// One table of a sweep: merged.csv and merged.json, a row per finished
+// variant with its parameters, J_G and every loss with σ in mA/cm², J_max
+// and photons, read from the variants' summary.json files (io/summary.hpp).
+#include <cstddef>
+#include <functional>
+#include <utility>
+#include <vector>
+
+#include "sweep/plan_folder.hpp"
+#include "sweep/status.hpp"
+
+namespace lumtrap {
+
+struct MergeReport {
+  std::size_t merged = 0;
+  std::vector<std::pair<std::size_t, VariantStatus>> missing;  ///< variant index and its state
+};
+
+/// Called for a split variant whose result folder is missing, before it is
+/// counted as missing: adds its finished parts into a result folder when it
+/// can (run_unit.hpp, assemble_variant). May be empty.
+using AssembleVariant = std::function<void(const SweepFolder&, std::size_t variant)>;
+
+/// Writes DIR/merged.csv and DIR/merged.json from every finished variant.
+/// Throws std::runtime_error, writing nothing, when a result belongs to
+/// another sweep or tool version (hash check); missing variants are
+/// reported. merged.csv holds every number in its shortest exact text, so
+/// equal tallies give equal bytes.
+MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble = {});
+
+}  // namespace lumtrap
