@@ -83,6 +83,10 @@ struct TextureDescriptor {
   double (*smallest_feature_um)(const TextureParams&) = nullptr;
   /// The mesh of one periodic tile (mesh.hpp conventions).
   TileMesh (*build)(const TextureParams&) = nullptr;
+  /// About how many triangles `build` makes, from the parameters alone
+  /// (without building), to bound memory and time before any work (null:
+  /// not estimated yet).
+  double (*estimate_triangles)(const TextureParams&) = nullptr;
 };
 
 /// Every texture, in the order of the registry.
