@@ -100,11 +100,6 @@ double parse_in(std::string_view text, const UnitFamily& f) {
 const std::vector<std::string_view> kModels = {"cauchy", "sellmeier", "tauc_lorentz",
                                                "drude", "oscillator_sum", "doped_silicon"};
 
-std::string word_list(const std::vector<std::string_view>& words) {
-  std::string s;
-  for (std::string_view w : words) s += (s.empty() ? "\"" : ", \"") + std::string(w) + "\"";
-  return s;
-}
 
 std::string join(const std::vector<std::string_view>& items) {
   std::string s;
@@ -112,19 +107,7 @@ std::string join(const std::vector<std::string_view>& items) {
   return s;
 }
 
-std::string_view type_name(const toml::node& n) {
-  if (n.is_string()) return "a string";
-  if (n.is_integer()) return "an integer";
-  if (n.is_floating_point()) return "a float";
-  if (n.is_boolean()) return "a boolean";
-  if (n.is_array()) return "an array";
-  if (n.is_table()) return "a table";
-  return "a date/time";
-}
 
-std::string child(const std::string& path, std::string_view key) {
-  return path.empty() ? std::string(key) : path + "." + std::string(key);
-}
 
 // ---------------------------------------------------------------------------
 // The reader
@@ -138,10 +121,7 @@ class Reader {
  private:
   fs::path file_;
 
-  std::string where(const toml::source_region& r) const {
-    if (r.begin.line == 0) return file_.string();
-    return fmt::format("{}:{}:{}", file_.string(), r.begin.line, r.begin.column);
-  }
+  std::string where(const toml::source_region& r) const { return toml_where(file_, r); }
   [[noreturn]] void fail_at(const toml::source_region& r, const std::string& key,
                             const std::string& what) const {
     throw DispersionFileError(fmt::format("{}: key '{}': {}", where(r), key, what));
@@ -156,7 +136,7 @@ class Reader {
     for (auto&& [k, v] : t) {
       if (std::find(allowed.begin(), allowed.end(), k.str()) != allowed.end()) continue;
       const toml::source_region& r = k.source().begin.line ? k.source() : v.source();
-      fail_at(r, child(path, k.str()),
+      fail_at(r, toml_child_key(path, k.str()),
               fmt::format("value {}: unknown key; allowed keys {}: {}", toml_value_text(v, 6),
                           context, join(allowed)));
     }
@@ -165,7 +145,7 @@ class Reader {
   const toml::node& require(const toml::table& t, const std::string& path, std::string_view key,
                             const std::string& what) const {
     if (const toml::node* n = t.get(key)) return *n;
-    fail_at(t.source(), child(path, key), "missing; required: " + what);
+    fail_at(t.source(), toml_child_key(path, key), "missing; required: " + what);
   }
 
   double number(const toml::node& n, const std::string& key, std::string_view allowed) const {
@@ -177,14 +157,14 @@ class Reader {
     else
       fail_value(n, key, fmt::format("{} where a plain number was expected (dimensionless, no "
                                      "unit); allowed: {}",
-                                     type_name(n), allowed));
+                                     toml_type_name(n), allowed));
     if (!std::isfinite(x)) fail_value(n, key, fmt::format("not a finite number; allowed: {}", allowed));
     return x;
   }
 
   const std::string& text(const toml::node& n, const std::string& key, std::string_view allowed) const {
     if (!n.is_string())
-      fail_value(n, key, fmt::format("{} where a string was expected; allowed: {}", type_name(n), allowed));
+      fail_value(n, key, fmt::format("{} where a string was expected; allowed: {}", toml_type_name(n), allowed));
     return n.as_string()->get();
   }
 
@@ -220,11 +200,11 @@ class Reader {
     if (!a || a->empty())
       fail_value(n, key, fmt::format("{} where a non-empty array of tables was expected; allowed: "
                                      "one or more [[{}]] tables",
-                                     a ? "an empty array" : type_name(n), key));
+                                     a ? "an empty array" : toml_type_name(n), key));
     for (std::size_t i = 0; i < a->size(); ++i) {
       const toml::node& e = (*a)[i];
       const std::string k = fmt::format("{}[{}]", key, i + 1);
-      if (!e.is_table()) fail_value(e, k, fmt::format("{} where a table was expected", type_name(e)));
+      if (!e.is_table()) fail_value(e, k, fmt::format("{} where a table was expected", toml_type_name(e)));
       read_one(*e.as_table(), k);
     }
   }
@@ -237,7 +217,7 @@ class Reader {
     try {
       check();
     } catch (const DispersionError& e) {
-      if (const toml::node* n = t.get(e.parameter)) fail_value(*n, child(path, e.parameter), e.what());
+      if (const toml::node* n = t.get(e.parameter)) fail_value(*n, toml_child_key(path, e.parameter), e.what());
       fail_value(fallback, fallback_key, e.what());
     }
   }
@@ -245,11 +225,11 @@ class Reader {
   // --- components ----------------------------------------------------------
   TaucLorentzOscillator tauc_lorentz(const toml::table& t, const std::string& path) const {
     TaucLorentzOscillator o;
-    o.A_eV = quantity(require(t, path, "A", "the amplitude A in eV"), child(path, "A"), kEnergy);
-    o.E0_eV = quantity(require(t, path, "E0", "the peak energy E0 in eV"), child(path, "E0"), kEnergy);
-    o.C_eV = quantity(require(t, path, "C", "the broadening C in eV"), child(path, "C"), kEnergy);
-    o.Eg_eV = quantity(require(t, path, "Eg", "the gap Eg in eV"), child(path, "Eg"), kEnergy);
-    checked(t, path, *t.get("A"), child(path, "A"), [&] { check_tauc_lorentz(o); });
+    o.A_eV = quantity(require(t, path, "A", "the amplitude A in eV"), toml_child_key(path, "A"), kEnergy);
+    o.E0_eV = quantity(require(t, path, "E0", "the peak energy E0 in eV"), toml_child_key(path, "E0"), kEnergy);
+    o.C_eV = quantity(require(t, path, "C", "the broadening C in eV"), toml_child_key(path, "C"), kEnergy);
+    o.Eg_eV = quantity(require(t, path, "Eg", "the gap Eg in eV"), toml_child_key(path, "Eg"), kEnergy);
+    checked(t, path, *t.get("A"), toml_child_key(path, "A"), [&] { check_tauc_lorentz(o); });
     return o;
   }
 
@@ -267,24 +247,24 @@ class Reader {
     if (direct && carriers) {
       const toml::node& second = N ? *N : (mu ? *mu : *m);
       const std::string k = N ? "carrier_density" : (mu ? "mobility" : "effective_mass");
-      fail_value(second, child(path, k), "mixes the two forms of a Drude term; allowed: " + forms);
+      fail_value(second, toml_child_key(path, k), "mixes the two forms of a Drude term; allowed: " + forms);
     }
     DrudeTerm d;
     if (carriers) {
       const double density = quantity(require(t, path, "carrier_density", forms),
-                                      child(path, "carrier_density"), kDensity);
+                                      toml_child_key(path, "carrier_density"), kDensity);
       const double mobility =
-          quantity(require(t, path, "mobility", forms), child(path, "mobility"), kMobility);
+          quantity(require(t, path, "mobility", forms), toml_child_key(path, "mobility"), kMobility);
       const double mass = number(require(t, path, "effective_mass", forms),
-                                 child(path, "effective_mass"), "a number > 0 (electron masses)");
-      checked(t, path, *N, child(path, "carrier_density"),
+                                 toml_child_key(path, "effective_mass"), "a number > 0 (electron masses)");
+      checked(t, path, *N, toml_child_key(path, "carrier_density"),
               [&] { d = drude_term_from_carriers(density, mobility, mass); });
     } else {
       d.plasma_energy_eV =
-          quantity(require(t, path, "plasma_energy", forms), child(path, "plasma_energy"), kEnergy);
+          quantity(require(t, path, "plasma_energy", forms), toml_child_key(path, "plasma_energy"), kEnergy);
       d.broadening_eV =
-          quantity(require(t, path, "broadening", forms), child(path, "broadening"), kEnergy);
-      checked(t, path, *ep, child(path, "plasma_energy"), [&] { check_drude(d); });
+          quantity(require(t, path, "broadening", forms), toml_child_key(path, "broadening"), kEnergy);
+      checked(t, path, *ep, toml_child_key(path, "plasma_energy"), [&] { check_drude(d); });
     }
     return d;
   }
@@ -320,20 +300,20 @@ class Reader {
                 "term", [&](const toml::table& e, const std::string& path) {
                   check_keys(e, path, {"B", "C", "resonance"}, "in a Sellmeier [[term]]");
                   SellmeierTerm term;
-                  term.B = number(require(e, path, "B", "B, a plain number"), child(path, "B"), "a number");
+                  term.B = number(require(e, path, "B", "B, a plain number"), toml_child_key(path, "B"), "a number");
                   const toml::node* C = e.get("C");
                   const toml::node* res = e.get("resonance");
                   const std::string either = "either C (um2) or resonance (a length, C = resonance²)";
-                  if (C && res) fail_value(*res, child(path, "resonance"), "given together with C; allowed: " + either);
-                  if (!C && !res) fail_at(e.source(), child(path, "C"), "missing; required: " + either);
+                  if (C && res) fail_value(*res, toml_child_key(path, "resonance"), "given together with C; allowed: " + either);
+                  if (!C && !res) fail_at(e.source(), toml_child_key(path, "C"), "missing; required: " + either);
                   if (C) {
-                    term.C_um2 = quantity(*C, child(path, "C"), kArea);
+                    term.C_um2 = quantity(*C, toml_child_key(path, "C"), kArea);
                   } else {
-                    const double um = length_nm(*res, child(path, "resonance")) / 1000.0;
-                    if (!(um >= 0.0)) fail_value(*res, child(path, "resonance"), "must be >= 0");
+                    const double um = length_nm(*res, toml_child_key(path, "resonance")) / 1000.0;
+                    if (!(um >= 0.0)) fail_value(*res, toml_child_key(path, "resonance"), "must be >= 0");
                     term.C_um2 = um * um;
                   }
-                  checked(e, path, *e.get("B"), child(path, "B"), [&] { check_sellmeier_term(term); });
+                  checked(e, path, *e.get("B"), toml_child_key(path, "B"), [&] { check_sellmeier_term(term); });
                   s.terms.push_back(term);
                 });
     return s;
@@ -369,8 +349,8 @@ class Reader {
 };
 
 DispersionFormula Reader::read(const toml::table& root, std::string source) {
-  const toml::node& model_node = require(root, "", "model", "one of " + word_list(kModels));
-  const std::string& model = text(model_node, "model", "one of " + word_list(kModels));
+  const toml::node& model_node = require(root, "", "model", "one of " + quoted_word_list(kModels));
+  const std::string& model = text(model_node, "model", "one of " + quoted_word_list(kModels));
   std::vector<std::string_view> keys = {"model", "wavelength_range"};
   const auto add = [&](std::vector<std::string_view> more) { keys.insert(keys.end(), more.begin(), more.end()); };
   if (model == "cauchy") add({"A", "B", "C", "k_amplitude", "urbach_edge", "urbach_width"});
@@ -380,7 +360,7 @@ DispersionFormula Reader::read(const toml::table& root, std::string source) {
     add({"eps_inf", "plasma_energy", "broadening", "carrier_density", "mobility", "effective_mass"});
   else if (model == "oscillator_sum") add({"eps_inf", "drude", "tauc_lorentz"});
   else if (model == "doped_silicon") add({"band_to_band", "doping", "carrier_density", "free_carrier_model"});
-  else fail_value(model_node, "model", "unknown model; allowed: " + word_list(kModels));
+  else fail_value(model_node, "model", "unknown model; allowed: " + quoted_word_list(kModels));
   check_keys(root, "", keys, fmt::format("for model \"{}\"", model));
 
   DispersionFormula f;

@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <map>
+#include <numbers>
 #include <climits>
 #include <cmath>
 #include <cstdint>
@@ -25,7 +26,6 @@ namespace fs = std::filesystem;
 
 namespace {
 
-constexpr double kTwoPi = 6.28318530717958647692;
 constexpr std::size_t kMaxWavelengths = 100000;
 /// (to - from)/step may differ from a whole number by this many steps.
 constexpr double kStepTolerance = 1e-6;
@@ -45,15 +45,6 @@ std::string join(const std::vector<std::string_view>& items, std::string_view se
 /// The value of a node as it would read in TOML, for messages.
 std::string show(const toml::node& n) { return toml_value_text(n, 6); }
 
-std::string_view type_name(const toml::node& n) {
-  if (n.is_string()) return "a string";
-  if (n.is_integer()) return "an integer";
-  if (n.is_floating_point()) return "a float";
-  if (n.is_boolean()) return "a boolean";
-  if (n.is_array()) return "an array";
-  if (n.is_table()) return "a table";
-  return "a date/time";
-}
 
 /// Levenshtein distance, for "did you mean" hints on unknown keys.
 std::size_t edit_distance(std::string_view a, std::string_view b) {
@@ -79,9 +70,6 @@ std::string upper(std::string s) {
   return s;
 }
 
-std::string child_key(const std::string& path, std::string_view key) {
-  return path.empty() ? std::string(key) : path + "." + std::string(key);
-}
 
 // ---------------------------------------------------------------------------
 // The validating reader.
@@ -112,10 +100,7 @@ class SceneReader {
   std::string wavelengths_where_;
 
   // --- messages ------------------------------------------------------------
-  std::string where(const toml::source_region& r) const {
-    if (r.begin.line == 0) return file_.string();
-    return fmt::format("{}:{}:{}", file_.string(), r.begin.line, r.begin.column);
-  }
+  std::string where(const toml::source_region& r) const { return toml_where(file_, r); }
   [[noreturn]] void fail_at(const toml::source_region& r, const std::string& key,
                             const std::string& what) const {
     throw SceneError(fmt::format("{}: key '{}': {}", where(r), key, what));
@@ -146,7 +131,7 @@ class SceneReader {
         }
       const toml::source_region& r = k.source().begin.line ? k.source() : v.source();
       const std::string table = path.empty() ? "at the top level" : "in [" + path + "]";
-      fail_at(r, child_key(path, name),
+      fail_at(r, toml_child_key(path, name),
               fmt::format("value {}: unknown key{}; allowed keys {}: {}", show(v), hint, table,
                           join(allowed, ", ")));
     }
@@ -156,9 +141,9 @@ class SceneReader {
   const toml::table* sub_table(const toml::table& t, const std::string& path, std::string_view key) const {
     const toml::node* n = t.get(key);
     if (!n) return nullptr;
-    const std::string k = child_key(path, key);
+    const std::string k = toml_child_key(path, key);
     if (!n->is_table())
-      fail_value(*n, k, fmt::format("{} where a table was expected; allowed: a table [{}]", type_name(*n), k));
+      fail_value(*n, k, fmt::format("{} where a table was expected; allowed: a table [{}]", toml_type_name(*n), k));
     return n->as_table();
   }
 
@@ -166,7 +151,7 @@ class SceneReader {
   const std::string& string_value(const toml::node& n, const std::string& key,
                                   std::string_view allowed) const {
     if (!n.is_string())
-      fail_value(n, key, fmt::format("{} where a string was expected; allowed: {}", type_name(n), allowed));
+      fail_value(n, key, fmt::format("{} where a string was expected; allowed: {}", toml_type_name(n), allowed));
     return n.as_string()->get();
   }
 
@@ -183,7 +168,7 @@ class SceneReader {
   E word_or(const toml::table& t, const std::string& path, std::string_view key, const Words<E>& words,
             E fallback) const {
     const toml::node* n = t.get(key);
-    return n ? word(*n, child_key(path, key), words) : fallback;
+    return n ? word(*n, toml_child_key(path, key), words) : fallback;
   }
 
   double number(const toml::node& n, const std::string& key, std::string_view allowed) const {
@@ -193,7 +178,7 @@ class SceneReader {
     else if (auto* f = n.as_floating_point())
       x = f->get();
     else
-      fail_value(n, key, fmt::format("{} where a number was expected; allowed: {}", type_name(n), allowed));
+      fail_value(n, key, fmt::format("{} where a number was expected; allowed: {}", toml_type_name(n), allowed));
     if (!std::isfinite(x)) fail_value(n, key, fmt::format("not a finite number; allowed: {}", allowed));
     return x;
   }
@@ -202,14 +187,14 @@ class SceneReader {
                        std::string_view allowed) const {
     auto* i = n.as_integer();
     if (!i)
-      fail_value(n, key, fmt::format("{} where an integer was expected; allowed: {}", type_name(n), allowed));
+      fail_value(n, key, fmt::format("{} where an integer was expected; allowed: {}", toml_type_name(n), allowed));
     if (i->get() < lo || i->get() > hi) fail_value(n, key, fmt::format("out of range; allowed: {}", allowed));
     return i->get();
   }
 
   bool boolean(const toml::node& n, const std::string& key) const {
     if (auto* b = n.as_boolean()) return b->get();
-    fail_value(n, key, fmt::format("{} where a boolean was expected; allowed: true, false", type_name(n)));
+    fail_value(n, key, fmt::format("{} where a boolean was expected; allowed: true, false", toml_type_name(n)));
   }
 
   /// A quantity with a unit, read by `parse` (units.hpp). `example` is shown
@@ -292,7 +277,7 @@ MaterialRef SceneReader::material(const toml::node* n, const std::string& key, s
     return ref;
   }
   if (!n->is_string())
-    fail_value(*n, key, fmt::format("{} where a material was expected; allowed: {}", type_name(*n), allowed));
+    fail_value(*n, key, fmt::format("{} where a material was expected; allowed: {}", toml_type_name(*n), allowed));
   return material_from_text(n->as_string()->get(), key, n, parent);
 }
 
@@ -338,7 +323,7 @@ Texture SceneReader::read_texture(const toml::table& surface, const std::string&
   const auto descriptors = geometry::texture_descriptors();
   std::string kinds;
   for (const TextureDescriptor* d : descriptors) kinds += (kinds.empty() ? "\"" : ", \"") + std::string(d->kind) + "\"";
-  const std::string kind_key = child_key(path, "texture");
+  const std::string kind_key = toml_child_key(path, "texture");
   const std::string kind = kind_node ? string_value(*kind_node, kind_key, "one of " + kinds) : "planar";
   const TextureDescriptor* d = geometry::find_texture(kind);
   if (!d) fail_value(*kind_node, kind_key, "unknown word; allowed: one of " + kinds);
@@ -354,7 +339,7 @@ Texture SceneReader::read_texture(const toml::table& surface, const std::string&
     std::string owner_text;
     for (std::size_t i = 0; i < owners.size(); ++i)
       owner_text += fmt::format("{}\"{}\"", i == 0 ? "" : i + 1 == owners.size() ? " or " : ", ", owners[i]);
-    const std::string k = child_key(path, other->table);
+    const std::string k = toml_child_key(path, other->table);
     fail_at(n->source(), k,
             fmt::format("a [{}] table is allowed only with texture = {} (here texture = \"{}\")", k, owner_text, kind));
   }
@@ -363,7 +348,7 @@ Texture SceneReader::read_texture(const toml::table& surface, const std::string&
   tex.kind = kind;
   if (d->table.empty()) return tex;
   static const toml::table empty;
-  const std::string tpath = child_key(path, d->table);
+  const std::string tpath = toml_child_key(path, d->table);
   const toml::table* t = sub_table(surface, path, d->table);
   const toml::table& tb = t ? *t : empty;
   std::vector<std::string_view> allowed;
@@ -373,7 +358,7 @@ Texture SceneReader::read_texture(const toml::table& surface, const std::string&
   // In descriptor order, so that a key's condition (a word key) is read before it.
   for (const ParamSpec& p : d->params) {
     const toml::node* n = tb.get(p.key);
-    const std::string key = child_key(tpath, p.key);
+    const std::string key = toml_child_key(tpath, p.key);
     const bool applies = geometry::param_applies(p, tex);
     std::string condition;
     if (!p.when_key.empty()) {
@@ -414,9 +399,9 @@ Texture SceneReader::read_texture(const toml::table& surface, const std::string&
   if (d->check)
     if (auto problem = d->check(tex)) {
       for (const std::string& k : problem->keys)
-        if (const toml::node* n = tb.get(k)) fail_value(*n, child_key(tpath, k), problem->message);
+        if (const toml::node* n = tb.get(k)) fail_value(*n, toml_child_key(tpath, k), problem->message);
       const std::string& k = problem->keys.front();
-      fail_at(tb.source(), child_key(tpath, k), fmt::format("default {} (set '{}')", problem->message, k));
+      fail_at(tb.source(), toml_child_key(tpath, k), fmt::format("default {} (set '{}')", problem->message, k));
     }
   return tex;
 }
@@ -497,14 +482,14 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
       fail_value(*fn, fk,
                  fmt::format("{} where an array of tables was expected; allowed: [[{}]] tables with material "
                              "and thickness",
-                             type_name(*fn), fk));
+                             toml_type_name(*fn), fk));
     for (std::size_t i = 0; i < arr->size(); ++i) {
       const toml::node& e = *arr->get(i);
       const std::string ek = fmt::format("{}[{}]", fk, i);
       const toml::table* ft = e.as_table();
       if (!ft)
         fail_value(e, ek, fmt::format("{} where a table was expected; allowed: {{ material = ..., thickness = ... }}",
-                                      type_name(e)));
+                                      toml_type_name(e)));
       check_keys(*ft, ek, {"material", "thickness"});
       Film film;
       const toml::node* m = ft->get("material");
@@ -566,7 +551,7 @@ std::vector<double> SceneReader::read_wavelengths(const toml::node& n, const std
     check_keys(*t, key, {"from", "to", "step"});
     for (std::string_view req : {"from", "to", "step"})
       if (!t->get(req))
-        fail_missing(*t, child_key(key, req), "from, to and step, e.g. { from = \"300 nm\", to = \"1200 nm\", step = \"10 nm\" }");
+        fail_missing(*t, toml_child_key(key, req), "from, to and step, e.g. { from = \"300 nm\", to = \"1200 nm\", step = \"10 nm\" }");
     const toml::node &nf = *t->get("from"), &nt = *t->get("to"), &ns = *t->get("step");
     const double from = positive(nf, key + ".from"), to = positive(nt, key + ".to"),
                  step = positive(ns, key + ".step");
@@ -592,7 +577,7 @@ std::vector<double> SceneReader::read_wavelengths(const toml::node& n, const std
     fail_value(n, key,
                fmt::format("{} where wavelengths were expected; allowed: \"1000 nm\", [\"600 nm\", \"900 nm\"] or "
                            "{{ from = \"300 nm\", to = \"1200 nm\", step = \"10 nm\" }}",
-                           type_name(n)));
+                           toml_type_name(n)));
   }
   return wl;
 }
@@ -653,14 +638,14 @@ void SceneReader::read_illumination(const toml::table* t, Illumination& ill,
   for (std::string_view k : {"polar_angle", "azimuth"}) {
     const toml::node* n = tb.get(k);
     if (n && ill.kind != IlluminationKind::collimated)
-      fail_value(*n, child_key("illumination", k),
+      fail_value(*n, toml_child_key("illumination", k),
                  "allowed only with kind = \"collimated\" (here kind = \"diffuse\": light from the whole "
                  "hemisphere has no direction)");
   }
   if (const toml::node* n = tb.get("polar_angle")) {
     ill.polar_rad = angle_rad(*n, "illumination.polar_angle");
     const double deg = angle_deg(*n, "illumination.polar_angle");  // "90 deg" is out whatever the rounding
-    if (!(ill.polar_rad >= 0 && ill.polar_rad < kTwoPi / 4 && deg < 90))
+    if (!(ill.polar_rad >= 0 && ill.polar_rad < std::numbers::pi / 2 && deg < 90))
       fail_value(*n, "illumination.polar_angle",
                  "out of range; allowed: 0 deg <= polar angle < 90 deg (from the wafer normal)");
   }
@@ -669,11 +654,11 @@ void SceneReader::read_illumination(const toml::table* t, Illumination& ill,
     // resolved file reads back exactly); others are reduced in degrees, so
     // that "-30 deg" becomes exactly what "330 deg" gives.
     double a = angle_rad(*n, "illumination.azimuth");
-    if (!(a >= 0 && a < kTwoPi)) {
+    if (!(a >= 0 && a < (2 * std::numbers::pi))) {
       double deg = std::fmod(angle_deg(*n, "illumination.azimuth"), 360.0);
       if (deg < 0) deg += 360.0;
-      a = deg * (kTwoPi / 2) / 180;  // the same arithmetic as parse_angle_rad("... deg")
-      if (!(a < kTwoPi)) a = 0;      // -tiny + 360 rounds up to 360
+      a = deg * std::numbers::pi / 180;  // the same arithmetic as parse_angle_rad("... deg")
+      if (!(a < (2 * std::numbers::pi))) a = 0;      // -tiny + 360 rounds up to 360
     }
     ill.azimuth_rad = a;
   }
@@ -734,7 +719,7 @@ void SceneReader::check_coverage(const std::vector<double>& wl) const {
 void SceneReader::record_positions(const toml::node& n, const std::string& key,
                                    std::map<std::string, std::string>& out) const {
   if (const toml::table* t = n.as_table()) {
-    for (auto&& [k, v] : *t) record_positions(v, child_key(key, k.str()), out);
+    for (auto&& [k, v] : *t) record_positions(v, toml_child_key(key, k.str()), out);
   } else if (const toml::array* a = n.as_array()) {
     for (std::size_t i = 0; i < a->size(); ++i)
       if (a->get(i)->is_table()) record_positions(*a->get(i), fmt::format("{}[{}]", key, i), out);

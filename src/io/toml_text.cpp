@@ -83,4 +83,29 @@ std::string_view trim_blanks(std::string_view s) {
   return s;
 }
 
+std::string toml_where(const std::filesystem::path& file, const toml::source_region& r) {
+  if (r.begin.line == 0) return file.string();
+  return fmt::format("{}:{}:{}", file.string(), r.begin.line, r.begin.column);
+}
+
+std::string_view toml_type_name(const toml::node& n) {
+  if (n.is_string()) return "a string";
+  if (n.is_integer()) return "an integer";
+  if (n.is_floating_point()) return "a float";
+  if (n.is_boolean()) return "a boolean";
+  if (n.is_array()) return "an array";
+  if (n.is_table()) return "a table";
+  return "a date/time";
+}
+
+std::string toml_child_key(std::string_view path, std::string_view key) {
+  return path.empty() ? std::string(key) : std::string(path) + "." + std::string(key);
+}
+
+std::string quoted_word_list(const std::vector<std::string_view>& words) {
+  std::string s;
+  for (std::string_view w : words) s += (s.empty() ? "\"" : ", \"") + std::string(w) + "\"";
+  return s;
+}
+
 }  // namespace lumtrap

@@ -2,9 +2,11 @@
 // TOML values as text: for writing resolved scenes and sweep tables, and for
 // quoting values in error messages.
 #include <cstddef>
+#include <filesystem>
 #include <limits>
 #include <string>
 #include <string_view>
+#include <vector>
 
 #include <toml++/toml.h>
 
@@ -26,5 +28,20 @@ bool is_bare_key(std::string_view s);
 
 /// `s` without leading and trailing spaces and tabs.
 std::string_view trim_blanks(std::string_view s);
+
+// --- pieces of error messages about TOML files, shared by every reader ------
+
+/// "FILE:LINE:COL" of a source region, or FILE for a value without a position
+/// (set by a program, e.g. a sweep).
+std::string toml_where(const std::filesystem::path& file, const toml::source_region& r);
+
+/// "a string", "an integer", "a float", "a boolean", "an array", "a table", "a date/time".
+std::string_view toml_type_name(const toml::node& n);
+
+/// "path.key", or "key" at the top level.
+std::string toml_child_key(std::string_view path, std::string_view key);
+
+/// "\"a\", \"b\", \"c\"" for lists of allowed words in messages.
+std::string quoted_word_list(const std::vector<std::string_view>& words);
 
 }  // namespace lumtrap

@@ -11,7 +11,6 @@
 namespace lumtrap {
 namespace {
 
-constexpr double kPi = std::numbers::pi;
 
 /// A unit word and how to convert a number given in it to the target unit:
 /// result = value * mul / div (two factors, so that e.g. nm -> um divides by
@@ -90,13 +89,13 @@ const UnitFamily& length_um() {
 
 const UnitFamily& angle_rad() {
   static const UnitFamily f{"an angle", "deg", "deg, °, rad",
-                            {{"deg", kPi, 180}, {"\xC2\xB0", kPi, 180}, {"rad", 1, 1}}};
+                            {{"deg", std::numbers::pi, 180}, {"\xC2\xB0", std::numbers::pi, 180}, {"rad", 1, 1}}};
   return f;
 }
 
 const UnitFamily& angle_deg() {
   static const UnitFamily f{"an angle", "deg", "deg, °, rad",
-                            {{"deg", 1, 1}, {"\xC2\xB0", 1, 1}, {"rad", 180, kPi}}};
+                            {{"deg", 1, 1}, {"\xC2\xB0", 1, 1}, {"rad", 180, std::numbers::pi}}};
   return f;
 }
 
@@ -179,7 +178,7 @@ std::string format_angle_rad(double rad) {
   // The fewest significant digits in degrees that read back to exactly `rad`
   // (several degree values can map to the same radians: prefer "330 deg" to
   // "329.99999999999994 deg").
-  const double deg = rad * 180 / kPi;
+  const double deg = rad * 180 / std::numbers::pi;
   if (!std::isfinite(deg)) throw UnitError("cannot write a non-finite angle");
   for (int digits = 1; digits <= 17; ++digits) {
     char buf[64];

@@ -3,6 +3,7 @@
 //   n_complex = n + i k, k >= 0 for an absorbing medium,
 //   fields vary as exp(i (k·r - ω t)), absorption coefficient α = 4π k / λ.
 // (Born & Wolf, Principles of Optics, 7th ed., 1999, §14.1; common practice.)
+#include <numbers>
 #include <complex>
 
 namespace lumtrap {
@@ -11,7 +12,7 @@ using cplx = std::complex<double>;
 
 /// Absorption coefficient α = 4πk/λ, in 1/nm for λ in nm.
 inline double absorption_coefficient_per_nm(cplx n, double wavelength_nm) {
-  return 4.0 * 3.14159265358979323846 * n.imag() / wavelength_nm;
+  return 4.0 * std::numbers::pi * n.imag() / wavelength_nm;
 }
 
 }  // namespace lumtrap

@@ -2,6 +2,7 @@
 // See dispersion.hpp for the models, units and references.
 #include "optics/dispersion.hpp"
 
+#include <numbers>
 #include <fmt/format.h>
 
 #include <cmath>
@@ -9,7 +10,6 @@
 namespace lumtrap {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 // SI constants. h, c, e are exact since 2019; ε0, m_e are CODATA 2018
 // recommended values (from memory).
@@ -107,7 +107,7 @@ cplx raw_index(const DispersionFormula& f, double wavelength_nm) {
             const cplx bb = d.band_to_band.index_at(wavelength_nm);
             const double alpha_per_nm =
                 free_carrier_absorption_per_cm(d.fca, d.type, wavelength_nm, d.density_cm3) * 1e-7;
-            return {bb.real(), bb.imag() + alpha_per_nm * wavelength_nm / (4.0 * kPi)};
+            return {bb.real(), bb.imag() + alpha_per_nm * wavelength_nm / (4.0 * std::numbers::pi)};
           },
       },
       f.model);
@@ -195,14 +195,14 @@ cplx tauc_lorentz_epsilon(const TaucLorentzOscillator& o, double E) {
   const double a_ln = (Eg2 - E02) * E2 + Eg2 * C2 - E02 * (E02 + 3.0 * Eg2);
   const double a_atan = (E2 - E02) * (E02 + Eg2) + Eg2 * C2;
 
-  const double t1 = A * C * a_ln / (2.0 * kPi * zeta4 * alpha * E0) *
+  const double t1 = A * C * a_ln / (2.0 * std::numbers::pi * zeta4 * alpha * E0) *
                     std::log((E02 + Eg2 + alpha * Eg) / (E02 + Eg2 - alpha * Eg));
-  const double t2 = -A * a_atan / (kPi * zeta4 * E0) *
-                    (kPi - std::atan((2.0 * Eg + alpha) / C) + std::atan((alpha - 2.0 * Eg) / C));
-  const double t3 = 2.0 * A * E0 * Eg * (E2 - gamma2) / (kPi * zeta4 * alpha) *
-                    (kPi + 2.0 * std::atan(2.0 * (gamma2 - Eg2) / (alpha * C)));
+  const double t2 = -A * a_atan / (std::numbers::pi * zeta4 * E0) *
+                    (std::numbers::pi - std::atan((2.0 * Eg + alpha) / C) + std::atan((alpha - 2.0 * Eg) / C));
+  const double t3 = 2.0 * A * E0 * Eg * (E2 - gamma2) / (std::numbers::pi * zeta4 * alpha) *
+                    (std::numbers::pi + 2.0 * std::atan(2.0 * (gamma2 - Eg2) / (alpha * C)));
   const double t45 =
-      A * E0 * C / (kPi * zeta4) *
+      A * E0 * C / (std::numbers::pi * zeta4) *
       ((-square_log(E - Eg) + square_log(E + Eg)) / E -
        Eg * std::log((E02 - Eg2) * (E02 - Eg2) + Eg2 * C2));
   return {t1 + t2 + t3 + t45, tauc_lorentz_eps2(o, E)};

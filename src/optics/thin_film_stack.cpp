@@ -31,6 +31,7 @@
 // layer's entrance - flux at its exit) / incident flux.
 #include "optics/thin_film_stack.hpp"
 
+#include <numbers>
 #include <algorithm>
 #include <cmath>
 #include <stdexcept>
@@ -41,7 +42,6 @@
 namespace lumtrap {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 std::string describe(cplx n) {
   std::string s = "(";
@@ -137,7 +137,7 @@ StackResponse solve_ordered(double n_in, const LayerOrder& order, cplx n_out, do
     return res;
   }
 
-  const double k0 = 2.0 * kPi / wavelength_nm;                     // vacuum wavenumber, 1/nm
+  const double k0 = 2.0 * std::numbers::pi / wavelength_nm;                     // vacuum wavenumber, 1/nm
   const cplx xi2 = n_in * n_in * (1.0 - cos_incident * cos_incident);  // (n_in sin θ)²
   const cplx q_in = n_in * cos_incident;
   const cplx q_out = normal_index_component(n_out, xi2);

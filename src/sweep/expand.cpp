@@ -62,10 +62,7 @@ nlohmann::json json_of(const toml::node& n) {
   return toml_value_text(n);
 }
 
-std::string where(const fs::path& file, const toml::source_region& r) {
-  if (r.begin.line == 0) return file.string();
-  return fmt::format("{}:{}:{}", file.string(), r.begin.line, r.begin.column);
-}
+std::string where(const fs::path& file, const toml::source_region& r) { return toml_where(file, r); }
 
 // ---------------------------------------------------------------------------
 // Numbers with units.
@@ -141,14 +138,6 @@ std::vector<PathStep> parse_key_path(std::string_view path) {
   return steps;
 }
 
-const char* kind_name(const toml::node& n) {
-  if (n.is_string()) return "a string";
-  if (n.is_number()) return "a number";
-  if (n.is_boolean()) return "a boolean";
-  if (n.is_array()) return "an array";
-  if (n.is_table()) return "a table";
-  return "a date/time";
-}
 
 // ---------------------------------------------------------------------------
 // Axes.
@@ -190,7 +179,7 @@ toml::array axis_values(const toml::node& n, const std::string& key, const fs::p
     }
   }
   throw SweepError(fmt::format("{}: sweep key '{}': {} where a list was expected; allowed: a list of values, or {}",
-                               at, key, kind_name(n), kRangeAllowed));
+                               at, key, toml_type_name(n), kRangeAllowed));
 }
 
 void check_sweep_key(const std::string& key, const toml::node& n, const fs::path& file) {
@@ -251,7 +240,7 @@ std::vector<Axis> read_axes(const toml::table& sweep, const fs::path& file) {
       if (!g)
         throw SweepError(fmt::format("{}: key 'sweep.grid': {} where a table was expected; allowed: a table "
                                      "[sweep.grid] of \"scene.key\" = [values] or \"FROM .. TO step STEP\"",
-                                     where(file, v.source()), kind_name(v)));
+                                     where(file, v.source()), toml_type_name(v)));
       for (auto&& [gk, gv] : *g) axes.push_back(grid_axis(std::string(gk.str()), gv, file));
     } else if (name == "zip") {
       if (const toml::table* z = v.as_table()) {
@@ -262,7 +251,7 @@ std::vector<Axis> read_axes(const toml::table& sweep, const fs::path& file) {
       } else {
         throw SweepError(fmt::format("{}: key 'sweep.zip': {} where a table was expected; allowed: [sweep.zip] or "
                                      "[[sweep.zip]] tables of \"scene.key\" = [values] of the same length",
-                                     where(file, v.source()), kind_name(v)));
+                                     where(file, v.source()), toml_type_name(v)));
       }
     } else {
       throw SweepError(fmt::format("{}: key 'sweep.{}': unknown key; allowed keys in [sweep]: grid, zip",
@@ -387,7 +376,7 @@ void set_at_key_path(toml::table& root, std::string_view path, const toml::node&
     }
     for (std::size_t k = 0; k < step.indices.size(); ++k) {
       toml::array* arr = node->as_array();
-      if (!arr) throw fail(fmt::format("'{}' is {}, not an array", walked, kind_name(*node)));
+      if (!arr) throw fail(fmt::format("'{}' is {}, not an array", walked, toml_type_name(*node)));
       const std::size_t idx = step.indices[k];
       if (idx >= arr->size())
         throw fail(fmt::format("'{}' has {} element{}, so there is no [{}]; allowed: an index below {} (elements "
@@ -401,7 +390,7 @@ void set_at_key_path(toml::table& root, std::string_view path, const toml::node&
       node = arr->get(idx);
     }
     table = node->as_table();
-    if (!table) throw fail(fmt::format("'{}' is {}, not a table", walked, kind_name(*node)));
+    if (!table) throw fail(fmt::format("'{}' is {}, not a table", walked, toml_type_name(*node)));
   }
 }
 
@@ -414,7 +403,7 @@ Sweep expand_sweep(const toml::table& root, const fs::path& file, const SceneChe
   const toml::table* sweep_table = sweep_node->as_table();
   if (!sweep_table)
     throw SweepError(fmt::format("{}: key 'sweep': {} where a table was expected; allowed: a [sweep] table",
-                                 where(file, sweep_node->source()), kind_name(*sweep_node)));
+                                 where(file, sweep_node->source()), toml_type_name(*sweep_node)));
   const std::vector<Axis> axes = read_axes(*sweep_table, file);
 
   std::size_t total = 1;

@@ -1,5 +1,6 @@
 #pragma once
 // Direction sampling used by illumination and scattering surfaces.
+#include <numbers>
 #include <cmath>
 
 #include <Eigen/Core>
@@ -24,7 +25,7 @@ inline Eigen::Vector3d cosine_weighted(const Eigen::Vector3d& axis, double u1, d
   Eigen::Vector3d b1, b2;
   orthonormal_basis(axis, b1, b2);
   const double r = std::sqrt(u1);
-  const double phi = 2.0 * 3.14159265358979323846 * u2;
+  const double phi = 2.0 * std::numbers::pi * u2;
   const double c = std::sqrt(std::max(0.0, 1.0 - u1));
   return (r * std::cos(phi)) * b1 + (r * std::sin(phi)) * b2 + c * axis;
 }

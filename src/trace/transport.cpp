@@ -13,7 +13,6 @@ namespace lumtrap {
 
 namespace {
 
-constexpr double kPi = std::numbers::pi;
 constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr int kMaxWallCrossings = 100000;  // per zone traversal; beyond: lost
 
@@ -151,9 +150,9 @@ void tally_absorbed_si(const TraceContext& ctx, const Photon& ph, double x, doub
 }
 
 std::size_t angle_bin(const TallyLayout& L, double cos_polar, double dx, double dy) {
-  double theta = std::acos(std::clamp(cos_polar, -1.0, 1.0)) * 180.0 / kPi;
+  double theta = std::acos(std::clamp(cos_polar, -1.0, 1.0)) * 180.0 / std::numbers::pi;
   int pb = std::clamp(int(theta / (90.0 / L.polar_bins)), 0, L.polar_bins - 1);
-  double phi = std::atan2(dy, dx) * 180.0 / kPi;
+  double phi = std::atan2(dy, dx) * 180.0 / std::numbers::pi;
   if (phi < 0) phi += 360.0;
   int ab = std::clamp(int(phi / (360.0 / L.azimuth_bins)), 0, L.azimuth_bins - 1);
   return std::size_t(pb) * L.azimuth_bins + ab;
@@ -174,7 +173,7 @@ double absorb_along(Photon& ph, double alpha, double path) {
 Field random_linear_field(const Eigen::Vector3d& d, PhotonRng& rng) {
   Eigen::Vector3d b1, b2;
   orthonormal_basis(d, b1, b2);
-  return linear_field(b1, b2, 2.0 * kPi * rng.uniform());
+  return linear_field(b1, b2, 2.0 * std::numbers::pi * rng.uniform());
 }
 
 enum class Outcome { continues, ended };
@@ -356,8 +355,8 @@ void launch(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& r
   double psi = 0;
   switch (il.polarization) {
     case PolarizationKind::s: psi = 0; break;
-    case PolarizationKind::p: psi = 0.5 * kPi; break;
-    case PolarizationKind::unpolarized: psi = kPi * rng.uniform(); break;
+    case PolarizationKind::p: psi = 0.5 * std::numbers::pi; break;
+    case PolarizationKind::unpolarized: psi = std::numbers::pi * rng.uniform(); break;
   }
   ph.E = linear_field(frame->s, frame->p, psi);
   ph.p = Eigen::Vector3d(f.period * rng.uniform(), f.period * rng.uniform(), f.zone_hi);

@@ -3,6 +3,7 @@
 // and malformed files give FILE:LINE:COL, key, value and what is allowed.
 #include "io/dispersion_file.hpp"
 
+#include <numbers>
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
@@ -20,7 +21,6 @@ namespace fs = std::filesystem;
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 fs::path scratch_dir() {
   const fs::path d = fs::temp_directory_path() / ("lumtrap_dispersion_file_" + std::to_string(::getpid()));
@@ -135,7 +135,7 @@ TEST(DispersionFile, ShippedModelsBehaveAsTheirFormulas) {
   // α = 2.6e-27 · 1200³ · 2e20 = 898.56 /cm = 8.9856e-5 /nm, k_fca = α λ/(4π);
   // band-to-band k of si_green2008 at 1200 nm = 2.1008e-7.
   const DispersionFormula poly = read_dispersion_file(formulas_dir() / "poly_si_n_plus.toml");
-  EXPECT_NEAR(complex_index(poly, 1200.0).imag(), 2.1008e-7 + 8.9856e-5 * 1200.0 / (4.0 * kPi), 1e-12);
+  EXPECT_NEAR(complex_index(poly, 1200.0).imag(), 2.1008e-7 + 8.9856e-5 * 1200.0 / (4.0 * std::numbers::pi), 1e-12);
 }
 
 // ---------------------------------------------------------------------------

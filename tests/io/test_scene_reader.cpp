@@ -24,7 +24,6 @@ namespace fs = std::filesystem;
 
 namespace {
 
-constexpr double kPi = std::numbers::pi;
 
 fs::path data_dir() { return fs::path(LUMTRAP_SOURCE_DIR) / "tests" / "io" / "data"; }
 
@@ -171,7 +170,7 @@ TEST(SceneParser, FullSceneGivesTheExpectedStructs) {
   const Illumination& ill = s.illumination;
   EXPECT_EQ(ill.spectrum, SpectrumKind::am15g);
   EXPECT_EQ(ill.kind, IlluminationKind::collimated);
-  EXPECT_DOUBLE_EQ(ill.polar_rad, 8 * kPi / 180);
+  EXPECT_DOUBLE_EQ(ill.polar_rad, 8 * std::numbers::pi / 180);
   EXPECT_EQ(ill.azimuth_rad, 0.0);
   EXPECT_EQ(ill.polarization, PolarizationKind::unpolarized);
   ASSERT_EQ(ill.wavelengths_nm.size(), 91u);
@@ -213,7 +212,7 @@ TEST(SceneParser, PathsUnitsAndAnglesResolve) {
   EXPECT_EQ(s.front.conformality, Conformality::directional);
   EXPECT_EQ(s.front.texture.number("base"), 10.0);  // "10 µm"
   EXPECT_EQ(s.front.texture.number("gap"), 1.0);
-  EXPECT_DOUBLE_EQ(s.front.texture.number("facet_angle"), std::atan(std::sqrt(2.0)) * 180 / kPi);  // default {111}
+  EXPECT_DOUBLE_EQ(s.front.texture.number("facet_angle"), std::atan(std::sqrt(2.0)) * 180 / std::numbers::pi);  // default {111}
   ASSERT_EQ(s.front.films.size(), 2u);
   const fs::path oxide = fs::absolute(data_dir() / "local" / "test_oxide.csv").lexically_normal();
   EXPECT_EQ(s.front.films[0].material.id_or_path, oxide.string());
@@ -228,7 +227,7 @@ TEST(SceneParser, PathsUnitsAndAnglesResolve) {
   EXPECT_EQ(s.illumination.spectrum_file,
             fs::absolute(data_dir() / "local" / "flat_spectrum.csv").lexically_normal());
   EXPECT_EQ(s.illumination.polar_rad, 0.5);
-  EXPECT_EQ(s.illumination.azimuth_rad, 330 * kPi / 180);  // -30 deg reduced to [0, 360)
+  EXPECT_EQ(s.illumination.azimuth_rad, 330 * std::numbers::pi / 180);  // -30 deg reduced to [0, 360)
   EXPECT_EQ(s.illumination.polarization, PolarizationKind::s);
   EXPECT_EQ(s.illumination.wavelengths_nm, (std::vector<double>{400, 800, 1100}));
 }
@@ -463,7 +462,7 @@ TEST(SceneRoundTrip, ResolvedTomlReadsBackIdentical) {
       "[front]\ntexture = \"upright_pyramids\"\n[front.pyramids]\nbase = \"3 um\"\ngap = \"0.25 um\"\nfacet_angle = \"50 deg\"\n"
       "[illumination]\npolar_angle = \"45 deg\"\nazimuth = \"400 deg\"\n"
       "wavelengths = [\"350 nm\", \"351.5 nm\", \"700 nm\", \"1.1 um\"]\n"));
-  EXPECT_EQ(e.illumination.azimuth_rad, 40 * kPi / 180);
+  EXPECT_EQ(e.illumination.azimuth_rad, 40 * std::numbers::pi / 180);
   EXPECT_THAT(resolved_scene_toml(e), HasSubstr("azimuth = \"40 deg\""));
   expect_same_scene(e, round_trip(e, "rt_angles_back.toml"));
 }

@@ -1,6 +1,7 @@
 // Quantities with units as written in scene files (io/units.hpp).
 #include "io/units.hpp"
 
+#include <numbers>
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
@@ -12,7 +13,6 @@ using ::testing::HasSubstr;
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 /// The UnitError message of `f(text)`, or "" when nothing was thrown.
 template <class F>
@@ -50,12 +50,12 @@ TEST(Units, LengthsInMicrometres) {
 }
 
 TEST(Units, Angles) {
-  EXPECT_DOUBLE_EQ(parse_angle_rad("45 deg"), kPi / 4);
-  EXPECT_DOUBLE_EQ(parse_angle_rad("45\xC2\xB0"), kPi / 4);  // "45°"
+  EXPECT_DOUBLE_EQ(parse_angle_rad("45 deg"), std::numbers::pi / 4);
+  EXPECT_DOUBLE_EQ(parse_angle_rad("45\xC2\xB0"), std::numbers::pi / 4);  // "45°"
   EXPECT_EQ(parse_angle_rad("0.5 rad"), 0.5);
   EXPECT_EQ(parse_angle_deg("54.74 deg"), 54.74);
-  EXPECT_DOUBLE_EQ(parse_angle_deg("0.5 rad"), 0.5 * 180 / kPi);
-  EXPECT_DOUBLE_EQ(parse_angle_rad("-30 deg"), -kPi / 6);
+  EXPECT_DOUBLE_EQ(parse_angle_deg("0.5 rad"), 0.5 * 180 / std::numbers::pi);
+  EXPECT_DOUBLE_EQ(parse_angle_rad("-30 deg"), -std::numbers::pi / 6);
 }
 
 TEST(Units, CurrentDensity) {
@@ -111,9 +111,9 @@ TEST(Units, FormatReadsBackExactly) {
   EXPECT_EQ(format_number(1e-5), "1e-05");
   EXPECT_THROW(format_number(std::nan("")), UnitError);
 
-  EXPECT_EQ(format_angle_rad(kPi / 4), "45 deg");
+  EXPECT_EQ(format_angle_rad(std::numbers::pi / 4), "45 deg");
   EXPECT_EQ(format_angle_rad(0), "0 deg");
-  for (double rad : {0.5, 0.1, 1.0, kPi / 3, 5.75958653158129, 1e-9}) {
+  for (double rad : {0.5, 0.1, 1.0, std::numbers::pi / 3, 5.75958653158129, 1e-9}) {
     const std::string text = format_angle_rad(rad);
     EXPECT_EQ(parse_angle_rad(text), rad) << text;
   }

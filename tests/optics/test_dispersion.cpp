@@ -4,6 +4,7 @@
 // silicon by hand, sampling into Material tables and the refusals.
 #include "optics/dispersion.hpp"
 
+#include <numbers>
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
@@ -18,7 +19,6 @@ using ::testing::HasSubstr;
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 /// Gauss–Legendre nodes and weights on [-1, 1] computed here by Newton's
 /// method on the Legendre recurrence (common practice; independent of the
@@ -32,7 +32,7 @@ GaussRule gauss_legendre(int n) {
   r.x.resize(n);
   r.w.resize(n);
   for (int i = 0; i < n; ++i) {
-    double x = std::cos(kPi * (i + 0.75) / (n + 0.5));
+    double x = std::cos(std::numbers::pi * (i + 0.75) / (n + 0.5));
     double dp = 0.0;
     for (int it = 0; it < 100; ++it) {
       double p0 = 1.0, p1 = x;
@@ -73,7 +73,7 @@ double integrate(const GaussRule& g, F f, double a, double b, int panels) {
 double kramers_kronig_eps1(const TaucLorentzOscillator& o, double E) {
   static const GaussRule g20 = gauss_legendre(20);
   const double Eg = o.Eg_eV;
-  const auto g = [&](double xi) { return xi > 0.0 ? 2.0 / kPi * xi * tauc_lorentz_eps2(o, xi) : 0.0; };
+  const auto g = [&](double xi) { return xi > 0.0 ? 2.0 / std::numbers::pi * xi * tauc_lorentz_eps2(o, xi) : 0.0; };
   const double gE = g(E);
   const auto regular = [&](double xi) { return (g(xi) - gE) / (xi * xi - E * E); };
   const double X = 200.0;  // eV
@@ -337,7 +337,7 @@ TEST(DopedSilicon, AddsFreeCarrierExtinctionToBandToBand) {
   // k_fca = α λ / (4π) = 1.44e-5 · 1200 / (4π) = 1.3751e-3; table k = 2.1008e-7, n = 3.52.
   const cplx n = complex_index(f, 1200.0);
   EXPECT_NEAR(n.real(), 3.52, 1e-12);
-  EXPECT_NEAR(n.imag(), 2.1008e-7 + 1.44e-5 * 1200.0 / (4.0 * kPi), 1e-12);
+  EXPECT_NEAR(n.imag(), 2.1008e-7 + 1.44e-5 * 1200.0 / (4.0 * std::numbers::pi), 1e-12);
   const Material m = formula_material(f, 10.0);
   EXPECT_EQ(m.wavelength_nm.front(), 300.0);
   EXPECT_EQ(m.wavelength_nm.back(), 1450.0);

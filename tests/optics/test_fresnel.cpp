@@ -1,6 +1,7 @@
 // Fresnel amplitudes of one planar interface (src/optics/fresnel.hpp).
 #include "optics/fresnel.hpp"
 
+#include <numbers>
 #include <gtest/gtest.h>
 
 #include <cmath>
@@ -9,7 +10,6 @@
 namespace lumtrap {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 // Transmitted power fractions of a single interface for a lossless incident
 // medium; for p the Poynting flux in an absorbing exit medium is
@@ -56,7 +56,7 @@ TEST(Fresnel, BrewsterAngleBothDirections) {
 TEST(Fresnel, TotalInternalReflectionSiliconToAir) {
   const double n1 = 3.5, n2 = 1.0, n = n2 / n1;
   const double theta_c = std::asin(n);
-  for (double theta = theta_c + 1e-6; theta < kPi / 2; theta += 0.002) {
+  for (double theta = theta_c + 1e-6; theta < std::numbers::pi / 2; theta += 0.002) {
     const double c = std::cos(theta), s = std::sin(theta);
     const FresnelAmplitudes f = fresnel_amplitudes(n1, n2, c);
     EXPECT_NEAR(std::abs(f.rs), 1.0, 1e-14);

@@ -8,39 +8,17 @@
 #include <fstream>
 #include <sstream>
 #include <string>
-#include <unistd.h>
 
 #include "optics/material.hpp"
+
+#include "common/temp_dir.hpp"
 
 namespace fs = std::filesystem;
 using namespace lumtrap;
 
 namespace {
 
-/// A fresh temporary folder per test, removed afterwards.
-class TempDir {
- public:
-  TempDir() {
-    const auto* info = ::testing::UnitTest::GetInstance()->current_test_info();
-    path_ = fs::temp_directory_path() /
-            ("lumtrap_material_" + std::to_string(::getpid()) + "_" + info->name());
-    fs::remove_all(path_);
-    fs::create_directories(path_);
-  }
-  ~TempDir() {
-    std::error_code ec;
-    fs::remove_all(path_, ec);
-  }
-  fs::path write(const std::string& name, const std::string& text) const {
-    const fs::path p = path_ / name;
-    std::ofstream(p, std::ios::binary) << text;
-    return p;
-  }
-  const fs::path& path() const { return path_; }
-
- private:
-  fs::path path_;
-};
+using test::TempDir;
 
 /// The MaterialError message of loading `file`; fails the test if none.
 std::string load_error(const fs::path& file) {

@@ -2,6 +2,7 @@
 // written here. Indices are constants written in this file.
 #include "optics/planar_wafer.hpp"
 
+#include <numbers>
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -14,7 +15,6 @@
 namespace lumtrap {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 double total(const PlanarResult& r) {
   return r.R + r.absorbed_silicon + r.absorbed_rear_medium + r.T +
@@ -63,7 +63,7 @@ Powers single_film(double n0, cplx n1, double d, cplx n2, double lambda, double 
     r12 = (n2 * c1 - n1 * c2) / (n2 * c1 + n1 * c2);
     t12 = 2.0 * q1 / (n2 * c1 + n1 * c2);
   }
-  const cplx e1 = std::exp(cplx(0.0, 2.0 * kPi / lambda * d) * q1);
+  const cplx e1 = std::exp(cplx(0.0, 2.0 * std::numbers::pi / lambda * d) * q1);
   const cplx den = 1.0 + r01 * r12 * e1 * e1;
   const cplx r = (r01 + r12 * e1 * e1) / den;
   const cplx t = t01 * t12 * e1 / den;
@@ -92,7 +92,7 @@ Expected film_si_metal(cplx n_film, double d_film, cplx n_si, double W, cplx n_m
   const Powers inside = single_film(n_si.real(), n_film, d_film, 1.0, lambda, c_si, p);
   const double R_rear = bare_interface_R(n_si.real(), n_metal, c_si, p);
   // Beer-Lambert, α = 4πk/λ, path W / cos θ_Si (common practice).
-  const double tau = std::exp(-4.0 * kPi * n_si.imag() / lambda * W / c_si);
+  const double tau = std::exp(-4.0 * std::numbers::pi * n_si.imag() / lambda * W / c_si);
 
   Expected e{front.R, 0.0, 0.0, front.A};
   double down = front.T;  // power leaving the front surface downwards
@@ -132,7 +132,7 @@ TEST(PlanarWafer, FilmSiliconMetalMatchesClosedForm) {
   for (const Case& k : cases) {
     const PlanarWafer w{{1.0, {{k.film, k.d}}, k.si}, k.W, {k.si, {}, k.metal}};
     for (double deg : {0.0, 30.0, 45.0, 60.0, 80.0}) {
-      const double c0 = std::cos(deg * kPi / 180.0);
+      const double c0 = std::cos(deg * std::numbers::pi / 180.0);
       for (bool p : {false, true}) {
         const Expected e = film_si_metal(k.film, k.d, k.si, k.W, k.metal, k.lambda, c0, p);
         const PlanarResult r =
@@ -195,7 +195,7 @@ TEST(PlanarWafer, LosslessSlabInAir) {
   EXPECT_NEAR(r.T, (1.0 - R) / (1.0 + R), 1e-12);
   EXPECT_EQ(r.absorbed_silicon, 0.0);
 
-  const double c0 = std::cos(50.0 * kPi / 180.0);
+  const double c0 = std::cos(50.0 * std::numbers::pi / 180.0);
   for (bool p : {false, true}) {
     const double Ri = bare_interface_R(1.0, 3.5, c0, p);
     const PlanarResult o = solve_planar_wafer(w, 1000.0, c0, p ? Polarization::p : Polarization::s);
@@ -212,9 +212,9 @@ TEST(PlanarWafer, BeerLambertAlongRefractedPath) {
   const double lambda = 1000.0, W = 100000.0;
   const PlanarWafer w = bare_wafer(1.0, si, W, si.real());
   for (double deg : {0.0, 45.0, 70.0}) {
-    const double c0 = std::cos(deg * kPi / 180.0);
-    const double s_si = std::sin(deg * kPi / 180.0) / si.real();
-    const double tau = std::exp(-4.0 * kPi * si.imag() / lambda * W / std::sqrt(1.0 - s_si * s_si));
+    const double c0 = std::cos(deg * std::numbers::pi / 180.0);
+    const double s_si = std::sin(deg * std::numbers::pi / 180.0) / si.real();
+    const double tau = std::exp(-4.0 * std::numbers::pi * si.imag() / lambda * W / std::sqrt(1.0 - s_si * s_si));
     for (bool p : {false, true}) {
       const PlanarResult r = solve_planar_wafer(w, lambda, c0, p ? Polarization::p : Polarization::s);
       const StackResponse f = solve_stack(w.front, lambda, c0, Incidence::from_a);
@@ -232,7 +232,7 @@ TEST(PlanarWafer, ObliqueIncidencePolarizations) {
                       150000.0,
                       {cplx(3.7, 0.005), {{1.45, 100.0}, {cplx(2.0, 0.0), 20.0}}, cplx(1.2, 7.0)}};
   for (double deg : {45.0, 60.0}) {
-    const double c0 = std::cos(deg * kPi / 180.0);
+    const double c0 = std::cos(deg * std::numbers::pi / 180.0);
     const PlanarResult s = solve_planar_wafer(w, 800.0, c0, Polarization::s);
     const PlanarResult p = solve_planar_wafer(w, 800.0, c0, Polarization::p);
     const PlanarResult u = solve_planar_wafer(w, 800.0, c0, Polarization::unpolarized);

@@ -8,38 +8,18 @@
 #include <iostream>
 #include <sstream>
 #include <string>
-#include <unistd.h>
 
 #include "optics/material.hpp"  // materials_dir
 #include "optics/spectrum.hpp"
+
+#include "common/temp_dir.hpp"
 
 namespace fs = std::filesystem;
 using namespace lumtrap;
 
 namespace {
 
-class TempDir {
- public:
-  TempDir() {
-    const auto* info = ::testing::UnitTest::GetInstance()->current_test_info();
-    path_ = fs::temp_directory_path() /
-            ("lumtrap_spectrum_" + std::to_string(::getpid()) + "_" + info->name());
-    fs::remove_all(path_);
-    fs::create_directories(path_);
-  }
-  ~TempDir() {
-    std::error_code ec;
-    fs::remove_all(path_, ec);
-  }
-  fs::path write(const std::string& name, const std::string& text) const {
-    const fs::path p = path_ / name;
-    std::ofstream(p, std::ios::binary) << text;
-    return p;
-  }
-
- private:
-  fs::path path_;
-};
+using test::TempDir;
 
 /// ∫_lo^hi of the piecewise-linear interpolant of (x, y), written here
 /// independently of the library: trapezoid, with the end pieces cut at

@@ -2,6 +2,7 @@
 // (src/optics/thin_film_stack.hpp). Indices are constants written here.
 #include "optics/thin_film_stack.hpp"
 
+#include <numbers>
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -15,7 +16,6 @@
 namespace lumtrap {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 
 double sum_A(const PolarizedResponse& r) { return std::accumulate(r.A.begin(), r.A.end(), 0.0); }
 double balance(const PolarizedResponse& r) { return r.R + r.T + sum_A(r) - 1.0; }
@@ -43,7 +43,7 @@ Airy airy_single_film(double n0, cplx n1, double d, cplx n2, double lambda, doub
   const cplx rp12 = (n2 * c1 - n1 * c2) / (n2 * c1 + n1 * c2);
   const cplx tp01 = 2.0 * q0 / (n1 * c0 + n0 * c1);
   const cplx tp12 = 2.0 * q1 / (n2 * c1 + n1 * c2);
-  const cplx beta = 2.0 * kPi * q1 * d / lambda;
+  const cplx beta = 2.0 * std::numbers::pi * q1 * d / lambda;
   const cplx e1 = std::exp(cplx(0, 1) * beta), e2 = e1 * e1;
   return {(rs01 + rs12 * e2) / (1.0 + rs01 * rs12 * e2), (rp01 + rp12 * e2) / (1.0 + rp01 * rp12 * e2),
           ts01 * ts12 * e1 / (1.0 + rs01 * rs12 * e2), tp01 * tp12 * e1 / (1.0 + rp01 * rp12 * e2)};

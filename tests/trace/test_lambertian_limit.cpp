@@ -8,6 +8,7 @@
 // and its weak-absorption limit A ≈ 4 n² α W (E. Yablonovitch, "Statistical
 // ray optics", J. Opt. Soc. Am. 72, 899-907, 1982).
 // Tracer vs exact: |Δ| <= 4σ (σ: the tracer's binomial standard error).
+#include <numbers>
 #include <fmt/format.h>
 
 #include <cmath>
@@ -75,7 +76,7 @@ TEST(LambertianLimit, TracerReproducesGreensExactAbsorptance) {
 TEST(LambertianLimit, WeakAbsorptionPathEnhancementIsFourNSquared) {
   // n = 3.5 and k such that αW = 2e-4 at 1000 nm for W = 100 µm.
   const double n = 3.5, W_um = 100.0, lam_nm = 1000.0, aW = 2e-4;
-  const double k = aW / (W_um * 1e3) * lam_nm / (4 * M_PI);
+  const double k = aW / (W_um * 1e3) * lam_nm / (4 * std::numbers::pi);
   const Scene scene = test::scene_from_text(
       lambertian_scene("100 um", fmt::format("{{ n = {}, k = {:.17g} }}", n, k), R"(["1000 nm"])"));
   auto run = prepare_run(scene);

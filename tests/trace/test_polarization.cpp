@@ -9,6 +9,7 @@
 // 2. Full tracking against averaging R_s and R_p at every hit on regular
 //    upright pyramids, bare and with a SiNx film: the difference is printed
 //    (and quoted in the README); both modes must keep every photon.
+#include <numbers>
 #include <fmt/format.h>
 
 #include <iostream>
@@ -31,7 +32,7 @@ void fresnel_r(double cos1, C n, C& rs, C& rp) {
 
 TEST(Polarization, TwoFacetReflectionMatchesJonesCalculusByHand) {
   const C n(3.9, 0.02);
-  const double a = 54.7356 * M_PI / 180, beta = 20 * M_PI / 180, psi0 = 30 * M_PI / 180;
+  const double a = 54.7356 * std::numbers::pi / 180, beta = 20 * std::numbers::pi / 180, psi0 = 30 * std::numbers::pi / 180;
   const V d0(0, 0, -1);
   const V n1(std::sin(a), 0, std::cos(a));
   const V n2 = V(-std::sin(a) * std::cos(beta), -std::sin(a) * std::sin(beta), std::cos(a)).normalized();
@@ -63,7 +64,7 @@ TEST(Polarization, TwoFacetReflectionMatchesJonesCalculusByHand) {
   const C Ep2 = -std::sin(phi) * As + std::cos(phi) * Ap;
   const double R_hand = std::norm(rs2 * Es2) + std::norm(rp2 * Ep2);
   std::cout << fmt::format("two-facet reflectance: by hand {:.12f}, tracer {:.12f}; planes rotated by {:.3f} deg\n",
-                           R_hand, E2.squaredNorm(), phi * 180 / M_PI);
+                           R_hand, E2.squaredNorm(), phi * 180 / std::numbers::pi);
   EXPECT_NEAR(E2.squaredNorm(), R_hand, 1e-12);
   EXPECT_GT(std::abs(std::sin(phi)), 0.1);  // the case really rotates the field
   // the outgoing field itself, component by component
