@@ -52,6 +52,11 @@ def main(argv: list[str]) -> None:
         _fail(cmd, str(e))
     except OSError as e:
         _fail(cmd, f"{e.filename or ''}: {e.strerror or e}: check the folder exists and is writable")
+    except Exception as e:  # noqa: BLE001 - a bug or an unforeseen file: one line, traceback on request
+        if os.environ.get("LUMTRAP_DEBUG"):
+            raise
+        _fail(cmd, f"unexpected {type(e).__name__} ({e}) while reading or drawing {' '.join(a.folders)}: "
+                   "check that the folders were written by this lumtrap version; set LUMTRAP_DEBUG=1 for details")
     for n in notes:
         print(f"lumtrap {cmd}: note: {n}", file=sys.stderr)
     for w in written:

@@ -94,10 +94,22 @@ def _atomic_write(path: str, data: bytes) -> None:
         raise
 
 
+_CLIP_ID = re.compile(rb'<clipPath id="([^"]+)"')
+
+
 def svg_bytes(fig) -> bytes:
+    """The figure as SVG, reproducible: matplotlib names the clip path of a
+    non-rectangular clip (e.g. a polar plot) from a memory address, so clip
+    paths are renamed clip1, clip2, ... in the order they are defined."""
     buf = io.BytesIO()
     fig.savefig(buf, format="svg", metadata=SVG_METADATA)
-    return buf.getvalue()
+    data = buf.getvalue()
+    names = list(dict.fromkeys(_CLIP_ID.findall(data)))
+    for n, old in enumerate(names, 1):
+        new = b"clip%d" % n
+        data = data.replace(b'id="' + old + b'"', b'id="' + new + b'"').replace(b"url(#" + old + b")",
+                                                                                 b"url(#" + new + b")")
+    return data
 
 
 def png_bytes(fig) -> bytes:

@@ -12,6 +12,7 @@ import os
 from . import charts as charts_mod
 from .errors import PlotError
 from .figure_style import close, save_chart
+from .parallel import run_all
 from .result_folder import is_result_folder, read_result_folder, short_labels
 from .sweep_folder import is_sweep_folder, read_sweep_folder
 
@@ -40,22 +41,29 @@ def _write(chart_list, folder: str) -> list[str]:
     return written
 
 
+def _draw(kind: str, item, ctx, target: str = ""):
+    """Draws and writes the charts of one task: (files written, notes)."""
+    if kind == "result":
+        cs, skipped = charts_mod.result_charts(item, ctx)
+        return _write(cs, charts_mod.plots_dir(item.path)), [f"skipped {s}" for s in skipped]
+    if kind == "sweep":
+        cs, skipped = charts_mod.sweep_charts(item, ctx)
+        return _write(cs, charts_mod.plots_dir(item.path)), [f"{item.path}: skipped {x}" for x in skipped]
+    return _write(charts_mod.comparison_charts(item, ctx), target), []
+
+
 def plot_folders(folders, out, version, materials_dir, lumtrap_exe):
     ctx = charts_mod.Context(version, materials_dir, lumtrap_exe)
     results, sweeps = read_folders(folders)
     if out and len(results) < 2:
         raise PlotError("--out names the folder of the comparison charts: give two or more result folders, "
                         "or leave it out (charts of one folder go into FOLDER/plots/)")
-    written, notes = [], []
-    for r in results:
-        cs, skipped = charts_mod.result_charts(r, ctx)
-        written += _write(cs, charts_mod.plots_dir(r.path))
-        notes += [f"skipped {s}" for s in skipped]
-    for s in sweeps:
-        cs, skipped = charts_mod.sweep_charts(s, ctx)
-        written += _write(cs, charts_mod.plots_dir(s.path))
-        notes += [f"{s.path}: skipped {x}" for x in skipped]
+    tasks = [("result", r, ctx) for r in results] + [("sweep", s, ctx) for s in sweeps]
     if len(results) >= 2:
         target = out or os.path.join(os.path.dirname(os.path.abspath(results[0].path)), "comparison-plots")
-        written += _write(charts_mod.comparison_charts(results, ctx), target)
+        tasks.append(("comparison", results, ctx, target))
+    written, notes = [], []
+    for w, n in run_all(_draw, tasks):
+        written += w
+        notes += n
     return written, notes

@@ -25,6 +25,7 @@ import os
 from . import charts as charts_mod
 from .errors import PlotError
 from .figure_style import _atomic_write, close, png_bytes, svg_bytes, svg_for_html
+from .parallel import run_all
 from .plot_files import read_folders
 from .result_folder import SILICON_BIN
 from . import palette
@@ -231,13 +232,11 @@ def report_folders(folders, out, version, materials_dir, lumtrap_exe):
         raise PlotError("--out names the report file of one folder: give one folder, or leave --out out "
                         "(each folder gets FOLDER/report.html)")
     results, sweeps = read_folders(folders)
-    written = []
-    for r in results:
-        path = out or os.path.join(r.path, "report.html")
-        _atomic_write(path, result_report(r, ctx).encode("utf-8"))
-        written.append(path)
-    for s in sweeps:
-        path = out or os.path.join(s.path, "report.html")
-        _atomic_write(path, sweep_report(s, ctx).encode("utf-8"))
-        written.append(path)
-    return written, []
+    tasks = [(result_report, r, ctx, out or os.path.join(r.path, "report.html")) for r in results]
+    tasks += [(sweep_report, s, ctx, out or os.path.join(s.path, "report.html")) for s in sweeps]
+    return run_all(_write_report, tasks), []
+
+
+def _write_report(make, folder, ctx, path: str) -> str:
+    _atomic_write(path, make(folder, ctx).encode("utf-8"))
+    return path
