@@ -24,9 +24,9 @@ def absorption_map_chart(exr_path: str, channels: dict[str, np.ndarray], caption
     shown = [(n, v) for n, v in channels.items() if np.any(v != 0)] or list(channels.items())
     cols = min(3, len(shown))
     rows = (len(shown) + cols - 1) // cols
-    fig = new_figure(2.8 * cols + 0.4, 2.7 * rows + 0.8)
+    fig = new_figure(3.3 * cols + 0.4, 2.7 * rows + 0.8)
     axes = fig.subplots(rows, cols, squeeze=False)
-    fig.subplots_adjust(left=0.08, right=0.94, top=1 - 0.55 / (2.7 * rows + 0.8),
+    fig.subplots_adjust(left=0.08, right=0.9, top=1 - 0.55 / (2.7 * rows + 0.8),
                         bottom=0.55 / (2.7 * rows + 0.8), hspace=0.55, wspace=0.55)
     cmap = palette.sequential_cmap()
     for k, (name, img) in enumerate(shown):
@@ -42,6 +42,10 @@ def absorption_map_chart(exr_path: str, channels: dict[str, np.ndarray], caption
         cb.ax.tick_params(labelsize=6)
     for j in range(len(shown), rows * cols):
         axes[j // cols][j % cols].set_visible(False)
+    zero = [n for n, v in channels.items() if not np.any(v != 0)]
+    if zero and len(zero) < len(channels):
+        fig.text(0.99, 0.995, "zero everywhere (not drawn): " + ", ".join(zero), ha="right", va="top", fontsize=7,
+                 color="#555555")
     band = absorption_band(exr_path)
     fig.text(0.01, 0.995, f"Where light is absorbed in the texture tile (top view), {band}", va="top", fontsize=9.5)
     add_caption(fig, caption)
