@@ -16,14 +16,23 @@ from .figure_style import Chart, add_caption, new_figure
 from .result_folder import SILICON_BIN
 
 
+SHOWN_FROM = 5e-4  # mA/cm²: losses below this in every folder print as 0.000 and are only named
+
+
 def loss_bins(results) -> list[tuple[str, str]]:
-    """(name, group) of every loss bin that is not zero in some folder, in group order."""
+    """(name, group) of every loss bin that reaches SHOWN_FROM in some folder, in group order."""
     seen: dict[str, str] = {}
     for r in results:
         for b in r.bins:
-            if b.name != SILICON_BIN and b.mA_cm2 != 0 and b.name not in seen:
+            if b.name != SILICON_BIN and abs(b.mA_cm2) >= SHOWN_FROM and b.name not in seen:
                 seen[b.name] = b.group
     return sorted(seen.items(), key=lambda kv: palette.group_rank(kv[1]))
+
+
+def small_bins(results, shown) -> list[str]:
+    names = {n for n, _ in shown}
+    return list(dict.fromkeys(b.name for r in results for b in r.bins
+                              if b.name != SILICON_BIN and b.name not in names))
 
 
 def losses_chart(results, caption: str) -> Chart:
@@ -98,5 +107,9 @@ def losses_chart(results, caption: str) -> Chart:
         ax.legend(loc="lower right", frameon=False)
     if not losses:
         ax.text(0.5, 0.5, "no losses", transform=ax.transAxes, ha="center")
+    small = small_bins(results, losses)
+    if small:
+        fig.text(0.01, 0.3 / height, f"below {SHOWN_FROM} mA/cm² in every folder (not drawn): " + ", ".join(small),
+                 fontsize=6.5, color="#555555", va="bottom")
     add_caption(fig, caption)
     return Chart("losses", fig, "Breakdown of J_max and the losses in mA/cm² with ±1σ errors")

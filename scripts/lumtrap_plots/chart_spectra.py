@@ -28,8 +28,9 @@ def _flux_background(ax, flux, spectrum: str, wl: np.ndarray):
     if not keep.any():
         return None
     ax2 = ax.twinx()
-    ax2.fill_between(fw[keep], fphi[keep] / FLUX_UNIT, color="#000000", alpha=0.10, linewidth=0.6,
-                     edgecolor="#333333", gid="background-flux", label=f"{spectrum} photon flux (right axis)")
+    ax2.fill_between(fw[keep], fphi[keep] / FLUX_UNIT, color="#000000", alpha=0.07, linewidth=0,
+                     gid="background-flux", label=f"{spectrum} photon flux (right axis)")
+    ax2.plot(fw[keep], fphi[keep] / FLUX_UNIT, color="#ffffff", alpha=0.55, linewidth=0.6, gid="background-flux-edge")
     ax2.set_ylim(0, 1.05 * fphi[keep].max() / FLUX_UNIT)
     ax2.set_ylabel(f"{spectrum} photon flux [10¹⁸ m⁻² s⁻¹ nm⁻¹]", color="#777777")
     ax2.tick_params(axis="y", colors="#777777")

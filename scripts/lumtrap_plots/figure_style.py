@@ -64,6 +64,8 @@ def new_figure(width_in: float, height_in: float, **kw):
 
 def caption_text(scene_names: list[str], spectra: list[str], version: str, extra: str = "") -> str:
     names = "; ".join(dict.fromkeys(scene_names)) or "(unnamed scene)"
+    if len(names) > 80:  # several long scene names: keep the caption on one line with the essentials
+        names = names[:77] + "..."
     spec = " / ".join(dict.fromkeys(spectra)) or "spectrum unknown"
     parts = [names, spec, "model estimate"]
     if extra:
@@ -74,8 +76,8 @@ def caption_text(scene_names: list[str], spectra: list[str], version: str, extra
 
 def add_caption(fig, text: str) -> None:
     """The caption line at the bottom left of the figure."""
-    if len(text) > 170:
-        text = text[:167] + "..."
+    if len(text) > 150:
+        text = text[:147] + "..."
     fig.text(0.01, 0.008, text, ha="left", va="bottom", fontsize=CAPTION_SIZE, color="#444444",
              gid="caption")
 
