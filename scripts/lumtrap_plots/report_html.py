@@ -7,6 +7,9 @@ images as PNG data URIs, styles and the one small script inline, and a
 Content-Security-Policy that forbids loading anything from anywhere
 (nothing is fetched; no http(s) URL appears in the file).
 
+Charts that `lumtrap plot` has drawn since the folder last changed are
+taken from FOLDER/plots/ instead of being drawn again.
+
 A result report: J_max, J_G and every loss with ±1σ (table-currents), the
 warnings (list-warnings), the charts (chart-<name>), the run facts
 (table-run) and the resolved scene (scene-toml). A sweep report: best
@@ -100,20 +103,38 @@ def _page(title: str, subtitle: str, body: str, version: str) -> str:
         f"<script>{SCRIPT}</script>\n</body>\n</html>\n")
 
 
-def _figure(chart) -> str:
+def _drawn_already(chart, folder: str, inputs: list[str], version: str) -> bytes | None:
+    """The chart as `lumtrap plot` wrote it into FOLDER/plots/, when that file
+    is newer than every input file and carries this lumtrap version in its
+    caption (charts are reproducible, so it equals a fresh drawing); else None."""
+    path = os.path.join(folder, "plots", chart.name + (".svg" if chart.svg else ".png"))
+    try:
+        made = os.path.getmtime(path)
+        if any(os.path.getmtime(f) > made for f in inputs if os.path.exists(f)):
+            return None
+        with open(path, "rb") as f:
+            data = f.read()
+    except OSError:
+        return None
+    if chart.svg and f"lumtrap {version}".encode() not in data:
+        return None
+    return data
+
+
+def _figure(chart, cached: bytes | None = None) -> str:
     fid = f"chart-{chart.name}"
     if chart.svg:
-        inner = svg_for_html(svg_bytes(chart.fig), fid + "-svg")
+        inner = svg_for_html(cached or svg_bytes(chart.fig), fid + "-svg")
     else:
-        data = base64.b64encode(png_bytes(chart.fig)).decode("ascii")
+        data = base64.b64encode(cached or png_bytes(chart.fig)).decode("ascii")
         inner = f'<img id="{fid}-img" alt="{esc(chart.title)}" src="data:image/png;base64,{data}">'
     close(chart)
     return f'<figure class="chart" id="{fid}">{inner}<figcaption>{esc(chart.title)} (model estimate)</figcaption></figure>'
 
 
-def _charts_section(chart_list, skipped) -> str:
+def _charts_section(chart_list, skipped, folder: str, inputs: list[str], version: str) -> str:
     parts = ['<section id="charts"><h2>Charts</h2>']
-    parts += [_figure(c) for c in chart_list]
+    parts += [_figure(c, _drawn_already(c, folder, inputs, version)) for c in chart_list]
     if skipped:
         parts.append("<p>Not drawn: " + esc("; ".join(skipped)) + "</p>")
     parts.append("</section>")
@@ -166,8 +187,10 @@ def result_report(r, ctx) -> str:
            + facts + "</tbody></table></section>")
     scene = ('<section id="scene"><h2>Resolved scene (scene.toml)</h2>'
              f'<pre id="scene-toml">{esc(r.scene_toml or "(scene.toml is missing)")}</pre></section>')
-    body = "\n".join([currents, _warnings(list(s.get("warnings", []))), _charts_section(chart_list, skipped),
-                      run, scene])
+    inputs = [os.path.join(r.path, f) for f in os.listdir(r.path)] + r.absorption_maps
+    inputs = [f for f in inputs if os.path.isfile(f) and os.path.basename(f) != "report.html"]
+    body = "\n".join([currents, _warnings(list(s.get("warnings", []))),
+                      _charts_section(chart_list, skipped, r.path, inputs, ctx.version), run, scene])
     jg = r.bin(SILICON_BIN)
     subtitle = (f"J_G = {fmt_pm(jg.mA_cm2, jg.sigma_mA_cm2)} mA/cm² of J_max {jmax:.3f} mA/cm² · "
                 f"{s.get('method', '')} · {r.spectrum} · model estimate")
@@ -221,7 +244,9 @@ def sweep_report(sw, ctx) -> str:
     chart_list, skipped = charts_mod.sweep_charts(sw, ctx)
     scene = ('<section id="scene"><h2>Resolved scene of the best variant</h2>'
              f'<pre id="scene-toml">{esc(sw.best_scene_toml or "(not found)")}</pre></section>')
-    body = "\n".join([best_s, _warnings([], sw.warnings), _charts_section(chart_list, skipped), table, run, scene])
+    inputs = [os.path.join(sw.path, f) for f in ("merged.csv", "merged.json", "sweep.json")]
+    body = "\n".join([best_s, _warnings([], sw.warnings),
+                      _charts_section(chart_list, skipped, sw.path, inputs, ctx.version), table, run, scene])
     subtitle = f"sweep of {len(sw.ids)} variants · {sw.spectrum} · model estimate"
     return _page(sw.scene_name, subtitle, body, ctx.version)
 
