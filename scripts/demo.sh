@@ -1,7 +1,10 @@
 #!/usr/bin/env bash
 # Installs what is missing, builds lumtrap, and runs the demo: line K7 (a
 # fictional cell line) compares three etch recipes and its polished
-# reference, plus the ideal Lambertian limit. Results go to results/demo/.
+# reference, plus the ideal Lambertian limit, and a small sweep (front SiNx
+# thickness x rear metal); then draws every result with `lumtrap plot` and
+# writes a self-contained HTML report of each (`lumtrap report`). Results go
+# to results/demo/.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash scripts/build.sh
@@ -15,9 +18,22 @@ for s in k7_polished_reference k7_recipe_a_coarse k7_recipe_b_standard k7_recipe
   echo "== ray tracing: scenes/$s.toml"
   "$BIN" run "scenes/$s.toml" -o "$OUT/$s" --overwrite
 done
+SWEEP="$OUT/k7_sinx_rear_sweep"
+echo "== sweep: scenes/k7_sinx_rear_sweep.toml (front SiNx 65-85 nm x Al/Ag rear, few photons)"
+"$BIN" sweep plan scenes/k7_sinx_rear_sweep.toml --out "$SWEEP" > /dev/null
+"$BIN" sweep local "$SWEEP"
+"$BIN" sweep merge "$SWEEP"
+FOLDERS=("$OUT/k7_polished_reference-planar" "$OUT/k7_polished_reference" "$OUT/k7_recipe_a_coarse"
+         "$OUT/k7_recipe_b_standard" "$OUT/k7_recipe_c_fine" "$OUT/lambertian_limit_180um")
+echo "== plots (PNG + SVG) and reports (HTML) of every result and of the sweep"
+"$BIN" plot "${FOLDERS[@]}" "$SWEEP" -o "$OUT/comparison-plots" > "$OUT/plots-written.txt"
+echo "$(wc -l < "$OUT/plots-written.txt") chart files, listed in $OUT/plots-written.txt"
+"$BIN" report "${FOLDERS[@]}" "$SWEEP"
 echo
 echo "== line K7, AM1.5G, 300-1200 nm (model estimates, mA/cm2 ± standard error)"
 python3 scripts/compare_results.py "$OUT/k7_polished_reference-planar" "$OUT/k7_polished_reference" \
   "$OUT/k7_recipe_a_coarse" "$OUT/k7_recipe_b_standard" "$OUT/k7_recipe_c_fine" "$OUT/lambertian_limit_180um"
 echo
-echo "Result folders are in $OUT/ (spectral.csv, summary.json, generation.csv, escape_angles.csv, ...)."
+echo "Result folders are in $OUT/ (spectral.csv, summary.json, generation.csv, escape_angles.csv, ...),"
+echo "each with its charts in plots/ and a report.html to open in a browser; comparison charts in"
+echo "$OUT/comparison-plots/; the sweep's merged table, charts and report in $SWEEP/."

@@ -11,6 +11,8 @@ PKGS=(
   libgtest-dev libgmock-dev libbenchmark-dev
   libtomlplusplus-dev libcli11-dev nlohmann-json3-dev libfmt-dev librandom123-dev
   python3
+  python3-matplotlib   # lumtrap plot / lumtrap report (scripts/lumtrap_plots)
+  chromium             # headless browser for the report test (tests/cli/test_report_chromium.sh)
 )
 
 missing=()

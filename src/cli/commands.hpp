@@ -12,6 +12,9 @@ void add_check_command(CLI::App& app);     // lumtrap check SCENE
 void add_materials_command(CLI::App& app); // lumtrap materials
 void add_sweep_command(CLI::App& app);     // lumtrap sweep plan|task|local|merge|status
 void add_end_states_command(CLI::App& app);  // lumtrap end-states
+void add_plot_command(CLI::App& app);      // lumtrap plot FOLDER...
+void add_report_command(CLI::App& app);    // lumtrap report FOLDER...
+void add_exr_channels_command(CLI::App& app);  // lumtrap exr-channels FILE (hidden helper of plot)
 
 /// Thrown by commands to end with a given exit code after a message.
 struct ExitCode {
