@@ -9,7 +9,7 @@ PKGS=(
   build-essential cmake pkg-config git
   libembree-dev libtbb-dev libeigen3-dev libopenexr-dev
   libgtest-dev libgmock-dev libbenchmark-dev
-  libtomlplusplus-dev libcli11-dev nlohmann-json3-dev libfmt-dev librandom123-dev
+  libtomlplusplus-dev libcli11-dev nlohmann-json3-dev libfmt-dev librandom123-dev libstb-dev
   python3
 )
 
