@@ -45,8 +45,11 @@ void rasterize(int width, int height, double offset, const ScreenVertex& a, cons
 }
 
 float shade(const Eigen::Vector3d& n) {
-  static const Eigen::Vector3d light = Eigen::Vector3d(-0.5, -0.5, std::sqrt(0.5)).normalized();
-  return float(0.15 + 0.85 * std::max(0.0, n.dot(light)));
+  // towards -x, a little towards -y (30° azimuth from -x), 50° up: the four
+  // facets of a pyramid aligned with x and y all get different shades
+  const double e = 50.0 * std::numbers::pi / 180.0, a = 30.0 * std::numbers::pi / 180.0;
+  static const Eigen::Vector3d light(-std::cos(e) * std::cos(a), -std::cos(e) * std::sin(a), std::sin(e));
+  return float(0.2 + 0.8 * std::max(0.0, n.dot(light)));
 }
 
 void check_size(int pixels, int tiles) {

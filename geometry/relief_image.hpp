@@ -7,9 +7,11 @@
 // along +y as the rows of a height-map file do, so a map read from a file
 // looks as the instrument's own display shows it. Heights in µm.
 //
-// Shading (common practice of relief maps): grey = 0.15 + 0.85·max(0, n·L)
-// with n the triangle's unit normal and L the direction to the light, which
-// stands towards the image's upper left (-x, -y) at 45° elevation.
+// Shading (Lambert's cosine law, common practice of relief maps):
+// grey = 0.2 + 0.8·max(0, n·L) with n the triangle's unit normal and L the
+// direction to the light: towards the image's left (-x), turned 30° towards
+// its top (-y), 50° above the wafer plane, so that the four facets of an
+// alkaline-etched pyramid show four different greys.
 // The oblique view is an orthographic projection seen from the +y side
 // (the image's bottom edge) at `elevation_deg` above the wafer plane: the
 // far edge of the tile (y = 0) is at the top of the image; a z-buffer keeps

@@ -12,6 +12,7 @@ void add_check_command(CLI::App& app);     // lumtrap check SCENE
 void add_materials_command(CLI::App& app); // lumtrap materials
 void add_sweep_command(CLI::App& app);     // lumtrap sweep plan|task|local|merge|status
 void add_end_states_command(CLI::App& app);  // lumtrap end-states
+void add_texture_command(CLI::App& app);   // lumtrap texture SCENE
 
 /// Thrown by commands to end with a given exit code after a message.
 struct ExitCode {

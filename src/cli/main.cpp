@@ -17,6 +17,7 @@ int main(int argc, char** argv) {
   lumtrap::cli::add_materials_command(app);
   lumtrap::cli::add_sweep_command(app);
   lumtrap::cli::add_end_states_command(app);
+  lumtrap::cli::add_texture_command(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -299,14 +299,14 @@ TEST(HeightMap, HeightRasterAtTheMapPitchHoldsTheSamples) {
 }
 
 TEST(HeightMap, ReliefImagesHaveTheExpectedSizeAndShading) {
-  // A flat tile seen from above is uniformly lit: 0.15 + 0.85·cos(45°)
-  // (the light at 45° elevation); seen at 45° it is a band sin(45°) as tall
-  // as the tile is wide.
+  // A flat tile seen from above is uniformly lit: 0.2 + 0.8·sin(50°)
+  // (Lambert, the light 50° above the plane); seen at 45° it is a band
+  // sin(45°) as tall as the tile is wide.
   const TileMesh flat = planar_tile(10.0);
   const GreyImage top = relief_from_above(flat, 50, 2);
   EXPECT_EQ(top.width, 100);
   EXPECT_EQ(top.height, 100);
-  for (float v : top.value) ASSERT_NEAR(v, 0.15 + 0.85 * std::sqrt(0.5), 1e-6);
+  for (float v : top.value) ASSERT_NEAR(v, 0.2 + 0.8 * std::sin(50.0 * kDeg), 1e-6);
   const GreyImage side = relief_oblique(flat, 100, 1, 45.0);
   EXPECT_EQ(side.width, 100);
   EXPECT_EQ(side.height, int(std::ceil(100 * std::sqrt(0.5))) + 1);
