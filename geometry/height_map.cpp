@@ -328,8 +328,9 @@ const TextureDescriptor kHeightMapTexture{
              .when_key = "tiling", .when_words = {"blend"}, .required = true, .example = "2 um"},
             {.key = "max_triangles", .kind = ParamKind::integer,
              .doc = "refuse a map whose tile would have more triangles (a memory bound checked before any "
-                    "work; it does not change results)",
-             .fallback = 2e7, .lo = 2, .hi = 4e9, .example = "20000000"},
+                    "work, about 125 bytes per triangle while tracing: the default is about 2 GB; it does not change "
+                    "results)",
+             .fallback = 1.6e7, .lo = 2, .hi = 4e9, .example = "16000000"},
         },
     .regular = false,
     .check = check_height_map,

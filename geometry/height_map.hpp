@@ -62,7 +62,7 @@ struct HeightMapSpec {
   std::size_t bin = 1;
   TilingMethod tiling = TilingMethod::mirror;
   double seam_width_um = 0;     ///< blend only
-  double max_triangles = 2e7;   ///< refuse maps whose mesh would be larger
+  double max_triangles = 1.6e7; ///< refuse maps whose mesh would be larger (~2 GB)
 };
 
 HeightMapSpec height_map_spec(const TextureParams& params);
@@ -101,10 +101,12 @@ TileMesh height_map_tile(const HeightGrid& file_grid, const HeightMapSpec& spec,
 /// The same through the loader, from texture parameters.
 TileMesh height_map_tile(const TextureParams& params, HeightMapReport* report = nullptr);
 
-/// Bytes per triangle of a height-map tile while a run holds it: the mesh
-/// (vertices and indices), the ray-tracing copy and its bounding-volume
-/// hierarchy, and the per-triangle normals. Measured on this code (see
-/// README, "Measured surfaces"); used to say what a refused map would need.
-inline constexpr double kHeightMapBytesPerTriangle = 150.0;
+/// Bytes per triangle of a height-map tile while `lumtrap run` holds it:
+/// the mesh (vertices and indices, ~24), the per-triangle normals and facet
+/// classes (~26), Embree's vertex copy and bounding-volume hierarchy (~65),
+/// the cached samples (~8). Measured peak resident memory / triangles:
+/// 1951 MB for 1.568·10⁷ triangles (bench/height_map_size.cpp, README
+/// "Measured surfaces"); used to say what a refused map would need.
+inline constexpr double kHeightMapBytesPerTriangle = 125.0;
 
 }  // namespace lumtrap::geometry
