@@ -27,25 +27,28 @@ enum class ParamKind {
   number,     ///< a plain number, 0.25
   integer,    ///< a plain integer, 7
   word,       ///< one of a list of words, "uniform"
+  file_path,  ///< a file, "maps/afm.csv"; held in `words` as an absolute path
+              ///< (src/io resolves relative paths against the scene file's
+              ///< folder; the scene identity hashes the file's content)
 };
 
 /// One key of a texture's table.
 struct ParamSpec {
-  std::string_view key;
+  std::string_view key{};
   ParamKind kind = ParamKind::number;
-  std::string_view doc;                    ///< one line for docs/scene-format.md
+  std::string_view doc{};                  ///< one line for docs/scene-format.md
   double fallback = 0;                     ///< default of a numeric key
-  std::string_view fallback_word;          ///< default of a word key
-  std::vector<std::string_view> words;     ///< allowed words of a word key
+  std::string_view fallback_word{};        ///< default of a word key
+  std::vector<std::string_view> words{};   ///< allowed words of a word key
   double lo = -std::numeric_limits<double>::infinity();  ///< allowed range of a numeric key
   double hi = std::numeric_limits<double>::infinity();
   bool lo_open = false, hi_open = false;   ///< strict bounds
   /// The key belongs to the texture only when key `when_key` holds one of
   /// `when_words` (e.g. "sd" only with distribution = "normal"); empty: always.
-  std::string_view when_key;
-  std::vector<std::string_view> when_words;
+  std::string_view when_key{};
+  std::vector<std::string_view> when_words{};
   bool required = false;                   ///< no default: must be given (where it belongs)
-  std::string_view example;                ///< example value for messages, e.g. "3 um"
+  std::string_view example{};              ///< example value for messages, e.g. "3 um"
 };
 
 /// A texture as the scene gives it: its kind and the value of every key that
@@ -53,7 +56,7 @@ struct ParamSpec {
 struct TextureParams {
   std::string kind = "planar";
   std::map<std::string, double, std::less<>> numbers;      ///< lengths µm, angles deg, numbers, integers
-  std::map<std::string, std::string, std::less<>> words;
+  std::map<std::string, std::string, std::less<>> words;  ///< word and file_path keys
 
   /// The value of a numeric / word key; std::out_of_range naming the key when absent.
   double number(std::string_view key) const;

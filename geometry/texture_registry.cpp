@@ -12,6 +12,7 @@ extern const TextureDescriptor kPlanarTexture;
 extern const TextureDescriptor kUprightPyramidsTexture;
 extern const TextureDescriptor kInvertedPyramidsTexture;
 extern const TextureDescriptor kRandomPyramidsTexture;
+extern const TextureDescriptor kHeightMapTexture;
 
 std::span<const TextureDescriptor* const> texture_descriptors() {
   static const TextureDescriptor* const all[] = {
@@ -19,6 +20,7 @@ std::span<const TextureDescriptor* const> texture_descriptors() {
       &kUprightPyramidsTexture,
       &kInvertedPyramidsTexture,
       &kRandomPyramidsTexture,
+      &kHeightMapTexture,
   };
   return all;
 }
@@ -63,7 +65,7 @@ TextureParams default_texture(std::string_view kind) {
   if (!d) throw std::invalid_argument("unknown texture kind \"" + p.kind + "\"");
   for (const ParamSpec& s : d->params) {
     if (s.required || !param_applies(s, p)) continue;
-    if (s.kind == ParamKind::word)
+    if (s.kind == ParamKind::word || s.kind == ParamKind::file_path)
       p.words[std::string(s.key)] = std::string(s.fallback_word);
     else
       p.numbers[std::string(s.key)] = s.fallback;

@@ -9,7 +9,7 @@ PKGS=(
   build-essential cmake pkg-config git
   libembree-dev libtbb-dev libeigen3-dev libopenexr-dev
   libgtest-dev libgmock-dev libbenchmark-dev
-  libtomlplusplus-dev libcli11-dev nlohmann-json3-dev libfmt-dev librandom123-dev
+  libtomlplusplus-dev libcli11-dev nlohmann-json3-dev libfmt-dev librandom123-dev libstb-dev
   python3
   python3-matplotlib   # lumtrap plot / lumtrap report (scripts/lumtrap_plots)
   chromium             # headless browser for the report test (tests/cli/test_report_chromium.sh)

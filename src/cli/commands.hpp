@@ -15,6 +15,7 @@ void add_end_states_command(CLI::App& app);  // lumtrap end-states
 void add_plot_command(CLI::App& app);      // lumtrap plot FOLDER...
 void add_report_command(CLI::App& app);    // lumtrap report FOLDER...
 void add_exr_channels_command(CLI::App& app);  // lumtrap exr-channels FILE (hidden helper of plot)
+void add_texture_command(CLI::App& app);   // lumtrap texture SCENE
 
 /// Thrown by commands to end with a given exit code after a message.
 struct ExitCode {

@@ -4,7 +4,7 @@
 // same tallies. It covers every value that can change a number (resolved,
 // so defaults count) and nothing else: not the scene's name, not the file
 // it was read from or how its path was spelt, not run.threads, and a
-// material table or spectrum given by path counts by its content, not by
+// material table, spectrum or height map given by path counts by its content, not by
 // where it lies.
 #include <string>
 

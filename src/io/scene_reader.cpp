@@ -15,6 +15,7 @@
 #include <utility>
 #include <vector>
 
+#include "io/height_map_file.hpp"
 #include "io/scene_words.hpp"
 #include "io/toml_text.hpp"
 #include "io/units.hpp"
@@ -86,6 +87,7 @@ struct MaterialUse {
 class SceneReader {
  public:
   SceneReader(const fs::path& file) : file_(file) {
+    install_height_map_reader();  // texture = "height_map" reads its file while it is validated
     std::error_code ec;
     fs::path abs = file.empty() ? fs::current_path(ec) / "scene.toml" : fs::absolute(file, ec);
     dir_ = abs.lexically_normal().parent_path();
@@ -379,13 +381,25 @@ Texture SceneReader::read_texture(const toml::table& surface, const std::string&
                                  condition.empty() ? "" : fmt::format(" with {} = \"{}\"", p.when_key,
                                                                       tex.word(p.when_key)),
                                  p.example));
-      if (p.kind == ParamKind::word)
+      if (p.kind == ParamKind::word || p.kind == ParamKind::file_path)
         tex.words[std::string(p.key)] = std::string(p.fallback_word);
       else
         tex.numbers[std::string(p.key)] = p.fallback;
       continue;
     }
-    if (p.kind == ParamKind::word) {
+    if (p.kind == ParamKind::file_path) {
+      // Relative to the scene file's folder, as material tables are; kept absolute.
+      const std::string allowed = fmt::format("a path to a file, relative to the scene file's folder or absolute, "
+                                              "e.g. \"{}\"", p.example);
+      const std::string text = trimmed(string_value(*n, key, allowed));
+      fs::path file(text);
+      if (file.is_relative()) file = dir_ / file;
+      std::error_code ec;
+      file = fs::absolute(file, ec).lexically_normal();
+      if (text.empty() || !fs::is_regular_file(file, ec))
+        fail_value(*n, key, fmt::format("no file {}; allowed: {}", file.string(), allowed));
+      tex.words[std::string(p.key)] = file.string();
+    } else if (p.kind == ParamKind::word) {
       std::string list;
       for (auto w : p.words) list += (list.empty() ? "\"" : ", \"") + std::string(w) + "\"";
       const std::string& w = string_value(*n, key, "one of " + list);
@@ -429,7 +443,8 @@ double SceneReader::texture_number(const toml::node& n, const std::string& key, 
       v = double(integer(n, key, std::int64_t(std::max(p.lo, -9e15)), std::int64_t(std::min(p.hi, 9e15)),
                          fmt::format("an integer >= {}", format_number(p.lo))));
       return v;
-    case ParamKind::word: break;
+    case ParamKind::word:
+    case ParamKind::file_path: break;
   }
   const bool lo_ok = p.lo_open ? v > p.lo : v >= p.lo;
   const bool hi_ok = p.hi_open ? v < p.hi : v <= p.hi;

@@ -50,7 +50,7 @@ std::string wavelengths_toml(const std::vector<double>& wl) {
 }
 
 /// The texture's table with every key that applies, in descriptor order.
-std::string texture_toml(const Texture& t, const std::string& surface) {
+std::string texture_toml(const Texture& t, const std::string& surface, const PathText& path_text) {
   using geometry::ParamKind;
   const geometry::TextureDescriptor& d = geometry::texture_of(t);
   std::string out;
@@ -65,6 +65,7 @@ std::string texture_toml(const Texture& t, const std::string& surface) {
       case ParamKind::number: value = toml_float_text(t.number(p.key)); break;
       case ParamKind::integer: value = fmt::format("{}", static_cast<std::int64_t>(t.number(p.key))); break;
       case ParamKind::word: value = toml_quote(t.word(p.key)); break;
+      case ParamKind::file_path: value = toml_quote(path_text(t.word(p.key))); break;
     }
     out += fmt::format("{} = {}\n", p.key, value);
   }
@@ -82,7 +83,7 @@ void write_surface(std::string& out, const PathText& path_text, const Surface& s
     out += fmt::format("diffuse_fraction = {}\n", toml_float_text(s.diffuse_fraction));
   if (medium) out += fmt::format("medium = {}\n", perfect_mirror ? "\"perfect_mirror\"" : material_toml(*medium, path_text));
 
-  out += texture_toml(s.texture, name);
+  out += texture_toml(s.texture, name, path_text);
   for (const Film& f : s.films) {
     out += fmt::format("\n[[{}.films]]\n", name);
     out += fmt::format("material = {}\n", material_toml(f.material, path_text));
