@@ -227,16 +227,38 @@ Material constant_material(double n, double k) {
   return m;
 }
 
-std::filesystem::path materials_dir() {
-  if (const char* env = std::getenv("LUMTRAP_MATERIALS"); env != nullptr && *env != '\0') {
-    return std::filesystem::path(env);
-  }
-#ifdef LUMTRAP_MATERIALS_DIR
-  return std::filesystem::path(LUMTRAP_MATERIALS_DIR);
-#else
-  return std::filesystem::path("materials");
-#endif
+namespace {
+
+/// The folder of the running executable ("" when /proc/self/exe cannot be read).
+std::filesystem::path executable_dir() {
+  std::error_code ec;
+  const std::filesystem::path exe = std::filesystem::read_symlink("/proc/self/exe", ec);
+  return ec ? std::filesystem::path() : exe.parent_path();
 }
+
+}  // namespace
+
+MaterialsLocation locate_materials() {
+  if (const char* env = std::getenv("LUMTRAP_MATERIALS"); env != nullptr && *env != '\0')
+    return {std::filesystem::path(env), "LUMTRAP_MATERIALS"};
+  const std::filesystem::path exe_dir = executable_dir();
+  std::vector<std::filesystem::path> candidates;
+  if (!exe_dir.empty()) {
+    candidates.push_back((exe_dir / ".." / "share" / "lumtrap" / "materials").lexically_normal());  // installed
+    candidates.push_back(exe_dir / "share" / "lumtrap" / "materials");                             // build tree
+  }
+  std::error_code ec;
+  for (std::size_t i = 0; i < candidates.size(); ++i)
+    if (std::filesystem::is_directory(candidates[i], ec))
+      return {candidates[i], i == 0 ? "installed beside the binary" : "build tree"};
+  std::string looked;
+  for (const auto& c : candidates) looked += (looked.empty() ? "" : ", ") + c.string();
+  return {candidates.empty() ? std::filesystem::path("materials") : candidates.front(),
+          fmt::format("not found (looked in {})", looked.empty() ? std::string("nothing: /proc/self/exe unreadable")
+                                                                   : looked)};
+}
+
+std::filesystem::path materials_dir() { return locate_materials().dir; }
 
 std::vector<std::string> shipped_material_ids() {
   std::vector<std::string> ids;
@@ -296,6 +318,8 @@ Material find_material(const std::string& id_or_path, const std::filesystem::pat
   std::vector<std::string> known = shipped_material_ids();
   known.insert(known.begin(), std::string(kAirId));
   std::string looked_in = fmt::format("no shipped table {}/{}.csv", dir.string(), ref);
+  if (const MaterialsLocation loc = locate_materials(); loc.how.rfind("not found", 0) == 0)
+    looked_in += fmt::format(" (the shipped materials folder was {}; set LUMTRAP_MATERIALS to it)", loc.how);
   if (!is_id(ref)) {
     std::filesystem::path p(ref);
     if (p.is_relative() && !relative_to.empty()) p = relative_to / p;
