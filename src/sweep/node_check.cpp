@@ -71,9 +71,10 @@ CheckLine check_libraries() {
 CheckLine check_materials() {
   const MaterialsLocation loc = locate_materials();
   CheckLine c{true, "materials", fmt::format("{} ({})", loc.dir.string(), loc.how)};
-  if (loc.how.rfind("not found", 0) == 0) {
+  std::error_code ec;
+  if (loc.how.rfind("not found", 0) == 0 || !fs::is_directory(loc.dir, ec)) {
     c.ok = false;
-    c.detail += "; set LUMTRAP_MATERIALS to PREFIX/share/lumtrap/materials";
+    c.detail += "; no such folder: set LUMTRAP_MATERIALS to PREFIX/share/lumtrap/materials of the install";
     return c;
   }
   std::size_t n = 0;
