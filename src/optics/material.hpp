@@ -50,7 +50,9 @@ struct NumericTable {
 };
 
 /// Reads `file` by the rules above; throws std::runtime_error with the
-/// message "FILE:LINE: what is wrong; what is allowed".
+/// message "FILE:LINE: what is wrong; what is allowed". A table read once
+/// is kept by the process while its file keeps its size and modification
+/// time (sweeps validate thousands of variants against the same tables).
 NumericTable read_numeric_csv(const std::filesystem::path& file,
                               const std::vector<std::string>& header);
 
