@@ -136,7 +136,7 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
                              {"photons", s.photons},
                              {"trace_seconds", s.trace_seconds},
                              {"peak_memory_MB", s.peak_memory_MB},
-                             {"result", fs::relative(result_dir(f, v), f.dir).string()}});
+                             {"result", "variants/" + var.id + "/result"}});
   }
   j["missing"] = ojson::array();
   for (const auto& [v, st] : report.missing)
