@@ -69,7 +69,7 @@ struct Options {
   bool big_only = false;
   int repeat = 3;
   double step_nm = 10;
-  std::string scene = std::filesystem::path(LUMTRAP_MATERIALS_DIR).parent_path() / "scenes" /
+  std::string scene = std::filesystem::path(LUMTRAP_SOURCE_DIR) / "scenes" /
                       "k7_recipe_b_standard.toml";
   double target = 0.02;  // mA/cm², precision section
 };

@@ -1,5 +1,7 @@
 #!/usr/bin/env bash
 # Installs the Debian 12 packages lumtrap needs to build, test and run.
+# With --runtime: only the shared libraries an installed lumtrap needs to run
+# (for compute nodes; README, "Installing on a cluster").
 # Idempotent: packages already present are left alone, and nothing is
 # downloaded when everything is there. Needs root (apt-get): run as root,
 # or as a user with password-less sudo.
@@ -14,6 +16,10 @@ PKGS=(
   python3-matplotlib   # lumtrap plot / lumtrap report (scripts/lumtrap_plots)
   chromium             # headless browser for the report test (tests/cli/test_report_chromium.sh)
 )
+
+if [ "${1:-}" = "--runtime" ]; then
+  PKGS=(libembree3-3 libtbb12 libtbbmalloc2 libopenexr-3-1-30 libimath-3-1-29 libfmt9 libtomlplusplus3)
+fi
 
 missing=()
 for p in "${PKGS[@]}"; do

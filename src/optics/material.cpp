@@ -10,6 +10,7 @@
 #include <cstdlib>
 #include <fstream>
 #include <limits>
+#include <mutex>
 #include <string_view>
 #include <system_error>
 
@@ -70,8 +71,55 @@ bool parse_number(std::string_view cell, double& value) {
 // ---------------------------------------------------------------------------
 // CSV reading (shared with spectrum files)
 
+namespace {
+
+NumericTable parse_numeric_csv(const std::filesystem::path& file, const std::vector<std::string>& header);
+
+/// Tables already read by this process, while their file is unchanged
+/// (same size and modification time): a sweep of 10 000 variants validates
+/// each against the same few tables.
+struct CsvCache {
+  struct Entry {
+    std::string key;
+    std::uintmax_t size;
+    std::filesystem::file_time_type time;
+    NumericTable table;
+  };
+  std::mutex mutex;
+  std::vector<Entry> entries;  // few: the shipped tables and a user's own
+};
+
+CsvCache& csv_cache() {
+  static CsvCache cache;
+  return cache;
+}
+
+}  // namespace
+
 NumericTable read_numeric_csv(const std::filesystem::path& file,
                               const std::vector<std::string>& header) {
+  std::error_code ec1, ec2;
+  const std::uintmax_t size = std::filesystem::file_size(file, ec1);
+  const auto time = std::filesystem::last_write_time(file, ec2);
+  if (ec1 || ec2) return parse_numeric_csv(file, header);  // the parser names the problem
+  const std::string key = file.string() + "\n" + join(header, ",");
+  CsvCache& cache = csv_cache();
+  {
+    const std::lock_guard lock(cache.mutex);
+    for (const auto& e : cache.entries)
+      if (e.key == key && e.size == size && e.time == time) return e.table;
+  }
+  NumericTable t = parse_numeric_csv(file, header);
+  const std::lock_guard lock(cache.mutex);
+  std::erase_if(cache.entries, [&](const CsvCache::Entry& e) { return e.key == key; });
+  if (cache.entries.size() >= 64) cache.entries.erase(cache.entries.begin());
+  cache.entries.push_back({key, size, time, t});
+  return t;
+}
+
+namespace {
+
+NumericTable parse_numeric_csv(const std::filesystem::path& file, const std::vector<std::string>& header) {
   const std::string columns_text = join(header, ",");
   std::ifstream in(file, std::ios::binary);
   if (!in) {
@@ -162,6 +210,8 @@ NumericTable read_numeric_csv(const std::filesystem::path& file,
   return table;
 }
 
+}  // namespace
+
 // ---------------------------------------------------------------------------
 // Material
 
@@ -227,16 +277,51 @@ Material constant_material(double n, double k) {
   return m;
 }
 
-std::filesystem::path materials_dir() {
-  if (const char* env = std::getenv("LUMTRAP_MATERIALS"); env != nullptr && *env != '\0') {
-    return std::filesystem::path(env);
-  }
-#ifdef LUMTRAP_MATERIALS_DIR
-  return std::filesystem::path(LUMTRAP_MATERIALS_DIR);
-#else
-  return std::filesystem::path("materials");
-#endif
+namespace {
+
+/// The folder of the running executable ("" when /proc/self/exe cannot be read).
+std::filesystem::path executable_dir() {
+  static const std::filesystem::path dir = [] {
+    std::error_code ec;
+    const std::filesystem::path exe = std::filesystem::read_symlink("/proc/self/exe", ec);
+    return ec ? std::filesystem::path() : exe.parent_path();
+  }();
+  return dir;
 }
+
+/// The folder found beside the binary (found once: it does not move while
+/// the process runs), and how.
+const MaterialsLocation& materials_beside_binary() {
+  static const MaterialsLocation found = [] {
+    const std::filesystem::path exe_dir = executable_dir();
+    std::vector<std::filesystem::path> candidates;
+    if (!exe_dir.empty()) {
+      candidates.push_back((exe_dir / ".." / "share" / "lumtrap" / "materials").lexically_normal());  // installed
+      candidates.push_back(exe_dir / "share" / "lumtrap" / "materials");                             // build tree
+    }
+    std::error_code ec;
+    for (std::size_t i = 0; i < candidates.size(); ++i)
+      if (std::filesystem::is_directory(candidates[i], ec))
+        return MaterialsLocation{candidates[i], i == 0 ? "installed beside the binary" : "build tree"};
+    std::string looked;
+    for (const auto& c : candidates) looked += (looked.empty() ? "" : ", ") + c.string();
+    return MaterialsLocation{
+        candidates.empty() ? std::filesystem::path("materials") : candidates.front(),
+        fmt::format("not found (looked in {})", looked.empty() ? std::string("nothing: /proc/self/exe unreadable")
+                                                                 : looked)};
+  }();
+  return found;
+}
+
+}  // namespace
+
+MaterialsLocation locate_materials() {
+  if (const char* env = std::getenv("LUMTRAP_MATERIALS"); env != nullptr && *env != '\0')
+    return {std::filesystem::path(env), "LUMTRAP_MATERIALS"};
+  return materials_beside_binary();
+}
+
+std::filesystem::path materials_dir() { return locate_materials().dir; }
 
 std::vector<std::string> shipped_material_ids() {
   std::vector<std::string> ids;
@@ -296,6 +381,8 @@ Material find_material(const std::string& id_or_path, const std::filesystem::pat
   std::vector<std::string> known = shipped_material_ids();
   known.insert(known.begin(), std::string(kAirId));
   std::string looked_in = fmt::format("no shipped table {}/{}.csv", dir.string(), ref);
+  if (const MaterialsLocation loc = locate_materials(); loc.how.rfind("not found", 0) == 0)
+    looked_in += fmt::format(" (the shipped materials folder was {}; set LUMTRAP_MATERIALS to it)", loc.how);
   if (!is_id(ref)) {
     std::filesystem::path p(ref);
     if (p.is_relative() && !relative_to.empty()) p = relative_to / p;

@@ -50,15 +50,31 @@ struct NumericTable {
 };
 
 /// Reads `file` by the rules above; throws std::runtime_error with the
-/// message "FILE:LINE: what is wrong; what is allowed".
+/// message "FILE:LINE: what is wrong; what is allowed". A table read once
+/// is kept by the process while its file keeps its size and modification
+/// time (sweeps validate thousands of variants against the same tables).
 NumericTable read_numeric_csv(const std::filesystem::path& file,
                               const std::vector<std::string>& header);
 
 /// A constant index n + ik (n > 0, k >= 0).
 Material constant_material(double n, double k);
 
-/// Directory of the shipped tables: $LUMTRAP_MATERIALS if set, else the
-/// source tree's materials/ (compile-time LUMTRAP_MATERIALS_DIR).
+/// Where the shipped tables are, and why there. Looked up in this order
+/// (no source-tree path is compiled in, so an installed tree can be moved):
+///   1. $LUMTRAP_MATERIALS, when set and not empty;
+///   2. <folder of the running binary>/../share/lumtrap/materials (an
+///      installed tree: PREFIX/bin/lumtrap, PREFIX/share/lumtrap/materials);
+///   3. <folder of the running binary>/share/lumtrap/materials (the build
+///      tree: CMake links build/share/lumtrap/materials to materials/).
+/// When none exists, `dir` is candidate 2 and `how` says where it looked, so
+/// the first failing lookup names the places.
+struct MaterialsLocation {
+  std::filesystem::path dir;
+  std::string how;  ///< "LUMTRAP_MATERIALS", "installed beside the binary", "build tree" or "not found (...)"
+};
+MaterialsLocation locate_materials();
+
+/// locate_materials().dir.
 std::filesystem::path materials_dir();
 
 /// Resolves a material reference: "air" (built-in constant n = 1, k = 0), an

@@ -472,6 +472,23 @@ Sweep expand_sweep(const toml::table& root, const fs::path& file, const SceneChe
   return out;
 }
 
+toml::table variant_table(const toml::table& root, const std::vector<std::pair<std::string, std::string>>& values) {
+  toml::table t = root;
+  for (const auto& [key, text] : values) {
+    toml::table holder;
+    try {
+      holder = toml::parse("v = " + text);
+    } catch (const toml::parse_error& e) {
+      throw SweepError(fmt::format("sweep key '{}': value {} is not a TOML value ({})", key, text, e.description()));
+    }
+    const toml::node* v = holder.get("v");
+    if (!v || holder.size() != 1)
+      throw SweepError(fmt::format("sweep key '{}': value {} is not a single TOML value", key, text));
+    set_at_key_path(t, key, *v);
+  }
+  return t;
+}
+
 Sweep read_sweep_file(const fs::path& file, const SceneCheck& check) {
   return expand_sweep(read_scene_table(file), file, check);
 }

@@ -23,6 +23,7 @@
 #include <stdexcept>
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include <nlohmann/json.hpp>
@@ -61,6 +62,13 @@ struct Sweep {
 /// A check of a whole scene beyond reading it (e.g. that the wafer holds
 /// its textures); throws std::runtime_error with the problem.
 using SceneCheck = std::function<void(const Scene&)>;
+
+/// The scene table of one variant: `root` (the sweep file's table) with each
+/// (dotted key, TOML value text) of `values` set (set_at_key_path). The
+/// plan stores a variant as its values only; a task rebuilds the scene
+/// with this and scene_from_table(table, sweep file, {"sweep"}), exactly as
+/// expand_sweep() validated it. SweepError for a value that is no TOML value.
+toml::table variant_table(const toml::table& root, const std::vector<std::pair<std::string, std::string>>& values);
 
 /// read_scene_table + expand_sweep. SceneError for TOML syntax errors.
 Sweep read_sweep_file(const std::filesystem::path& file, const SceneCheck& check = {});

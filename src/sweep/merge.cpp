@@ -4,6 +4,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <map>
 #include <stdexcept>
 
 #include "io/summary.hpp"
@@ -23,23 +24,19 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
   std::vector<std::string> foreign;
   std::vector<std::pair<std::size_t, Summary>> rows;
   std::vector<std::string> losses;  // loss names in order of first appearance
-  for (std::size_t v = 0; v < f.variants.size(); ++v) {
-    const SweepFolderVariant& var = f.variants[v];
-    std::string assembly_error;
+  std::map<std::size_t, std::string> assembly_errors;
+  std::vector<std::size_t> missing;
+  for (std::size_t v = 0; v < f.variant_count; ++v) {
+    const SweepFolderVariant& var = folder_variant(f, v);
     if (!result_complete(f, v) && f.split_photons > 1 && assemble) {
       try {
         assemble(f, v);
       } catch (const std::exception& e) {
-        assembly_error = e.what();
+        assembly_errors[v] = e.what();
       }
     }
     if (!result_complete(f, v)) {
-      VariantStatus st = variant_status(f, v);
-      if (!assembly_error.empty()) {
-        st.state = VariantState::failed;
-        st.detail = assembly_error;
-      }
-      report.missing.push_back({v, st});
+      missing.push_back(v);
       continue;
     }
     Summary s;
@@ -61,6 +58,18 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
     for (const auto& l : s.losses)
       if (std::find(losses.begin(), losses.end(), l.name) == losses.end()) losses.push_back(l.name);
     rows.push_back({v, std::move(s)});
+  }
+  if (!missing.empty()) {  // their states from the folder's files (no SLURM queries here)
+    const SweepStatus status = sweep_status(f);
+    for (std::size_t v : missing) {
+      VariantStatus st = status.variants[v];
+      if (auto it = assembly_errors.find(v); it != assembly_errors.end()) {
+        st.state = VariantState::failed;
+        st.kind = "its parts do not add up";
+        st.reason = it->second;
+      }
+      report.missing.push_back({v, st});
+    }
   }
   if (!foreign.empty()) {
     std::string msg = fmt::format("refusing to merge {}: {} result{} belong{} to another sweep or lumtrap version "
@@ -92,13 +101,13 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
   j["sweep_hash"] = f.sweep_hash;
   j["tool_version"] = f.tool_version;
   j["source"] = f.source;
-  j["variant_count"] = f.variants.size();
+  j["variant_count"] = f.variant_count;
   j["merged"] = rows.size();
   j["complete"] = report.missing.empty();
   j["columns"] = f.headers;
   j["variants"] = ojson::array();
   for (const auto& [v, s] : rows) {
-    const SweepFolderVariant& var = f.variants[v];
+    const SweepFolderVariant& var = folder_variant(f, v);
     csv += var.id;
     for (const auto& c : var.cells) add(c);
     add(fmt::format("{}", s.J_G_mA_cm2));
@@ -119,7 +128,7 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
     csv += "\n";
     j["variants"].push_back({{"id", var.id},
                              {"index", var.index},
-                             {"parameters", var.parameters},
+                             {"parameters", variant_parameters(f, var)},
                              {"J_G_mA_cm2", s.J_G_mA_cm2},
                              {"J_G_sigma_mA_cm2", s.J_G_sigma_mA_cm2},
                              {"losses", lj},
@@ -127,14 +136,15 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
                              {"photons", s.photons},
                              {"trace_seconds", s.trace_seconds},
                              {"peak_memory_MB", s.peak_memory_MB},
-                             {"result", fs::relative(result_dir(f, v), f.dir).string()}});
+                             {"result", "variants/" + var.id + "/result"}});
   }
   j["missing"] = ojson::array();
   for (const auto& [v, st] : report.missing)
-    j["missing"].push_back({{"id", f.variants[v].id},
+    j["missing"].push_back({{"id", variant_id(f, v)},
                             {"state", state_name(st.state)},
+                            {"array_index", st.task},
                             {"log", st.log.string()},
-                            {"detail", st.detail}});
+                            {"reason", st.reason}});
   write_file_atomically(f.dir / "merged.csv", csv);
   write_file_atomically(f.dir / "merged.json", j.dump(2) + "\n");
   report.merged = rows.size();

@@ -22,7 +22,8 @@ struct MergeReport {
 /// can (run_unit.hpp, assemble_variant). May be empty.
 using AssembleVariant = std::function<void(const SweepFolder&, std::size_t variant)>;
 
-/// Writes DIR/merged.csv and DIR/merged.json from every finished variant.
+/// Writes DIR/merged.csv and DIR/merged.json from every finished variant
+/// (the folder must be read whole: load_sweep_folder).
 /// Throws std::runtime_error, writing nothing, when a result belongs to
 /// another sweep or tool version (hash check); missing variants are
 /// reported. merged.csv holds every number in its shortest exact text, so

@@ -15,6 +15,8 @@
 #include "io/run_facts.hpp"
 #include "io/scene_identity.hpp"
 #include "io/scene_reader.hpp"
+#include "io/scene_writer.hpp"
+#include "sweep/run_mark.hpp"
 #include "trace/checkpoint.hpp"
 #include "trace/driver.hpp"
 #include "trace/run.hpp"
@@ -43,32 +45,42 @@ std::string threads_text() {
 
 struct LoadedVariant {
   std::unique_ptr<PreparedRun> run;
-  std::string scene_text;
+  std::string scene_text;   ///< the resolved scene (result/scene.toml)
   double setup_seconds = 0;
 };
 
+/// The variant's scene: sweep.toml with its swept values, anchored at the
+/// sweep file (relative paths), checked against the planned identity.
 LoadedVariant load_variant(const SweepFolder& f, std::size_t v) {
   const auto t0 = Clock::now();
-  const SweepFolderVariant& var = f.variants[v];
-  const fs::path path = variant_dir(f, v) / "scene.toml";
-  LoadedVariant lv;
-  lv.scene_text = read_text_file(path);
-  const Scene scene = scene_from_table(read_scene_table(path), path);
+  const SweepFolderVariant& var = folder_variant(f, v);
+  const fs::path base = f.dir / "sweep.toml";
+  std::vector<std::pair<std::string, std::string>> values;
+  for (std::size_t k = 0; k < f.keys.size() && k < var.toml.size(); ++k) values.emplace_back(f.keys[k], var.toml[k]);
+  const Scene scene = scene_from_table(variant_table(read_scene_table(base), values), f.source, {"sweep"});
   const std::string identity = scene_identity(scene);
   if (identity != var.scene_hash)
-    throw std::runtime_error(fmt::format("{} was changed after planning (scene identity {}, planned {}); plan the "
+    throw std::runtime_error(fmt::format("the scene of variant {} changed after planning (scene identity {}, planned "
+                                         "{}): {} or a material or spectrum file it names was changed; plan the "
                                          "sweep again into a new folder",
-                                         path.string(), identity, var.scene_hash));
+                                         var.id, identity, var.scene_hash, base.string()));
+  LoadedVariant lv;
+  lv.scene_text = resolved_scene_toml(scene);
   lv.run = prepare_run(scene, var.index);
   lv.setup_seconds = seconds_since(t0);
   return lv;
+}
+
+/// Result files a lean sweep leaves out: the angle maps (CSV and EXR).
+bool lean_drops(const std::string& name) {
+  return name.rfind("escape_angles.", 0) == 0 || name.rfind("rear_angles.", 0) == 0;
 }
 
 /// The files of a variant's result folder: those of `lumtrap run` plus tallies.json.
 std::vector<OutputFile> variant_files(const SweepFolder& f, std::size_t v, const LoadedVariant& lv,
                                       const std::vector<WavelengthTally>& tallies, const RunFacts& facts,
                                       Results* results_out) {
-  const SweepFolderVariant& var = f.variants[v];
+  const SweepFolderVariant& var = folder_variant(f, v);
   Results r = results_from_tallies(*lv.run, tallies);
   Summary& s = r.summary;
   s.tool_version = LUMTRAP_VERSION;
@@ -76,13 +88,37 @@ std::vector<OutputFile> variant_files(const SweepFolder& f, std::size_t v, const
   s.sweep_hash = f.sweep_hash;
   s.variant = var.id;
   s.variant_index = var.index;
-  s.parameters = var.parameters;
+  s.parameters = variant_parameters(f, var);
   s.split_photons = f.split_photons;
   apply_run_facts(s, facts);
   std::vector<OutputFile> files = result_files(r, lv.scene_text);
+  if (f.lean) std::erase_if(files, [](const OutputFile& o) { return lean_drops(o.name); });
   files.push_back({"tallies.json", tally_set_json(TallySet{var.scene_hash, LUMTRAP_VERSION, tallies}, lv.run->layout)});
   if (results_out) *results_out = std::move(r);
   return files;
+}
+
+// --- trace time of earlier attempts -------------------------------------------
+
+/// Trace seconds that earlier attempts of a unit spent on the work its
+/// checkpoint holds (0 without a checkpoint: that work is gone).
+double earlier_trace_seconds(const fs::path& file, const fs::path& checkpoint, const std::string& key) {
+  std::error_code ec;
+  if (!fs::exists(checkpoint, ec) || !fs::exists(file, ec)) return 0;
+  try {
+    const auto j = nlohmann::json::parse(read_text_file(file));
+    if (j.value("unit", std::string()) != key) return 0;
+    return std::max(0.0, j.value("trace_seconds", 0.0));
+  } catch (const std::exception&) {
+    return 0;  // informative only
+  }
+}
+
+void save_trace_seconds(const fs::path& file, const std::string& key, double seconds) {
+  try {
+    write_file_atomically(file, nlohmann::json{{"unit", key}, {"trace_seconds", seconds}}.dump() + "\n");
+  } catch (const std::exception&) {  // informative only
+  }
 }
 
 /// Writes the result folder; another process that wrote the same variant
@@ -125,7 +161,7 @@ bool assemble(const SweepFolder& f, std::size_t v, const LoadedVariant* loaded, 
       if (!set || set->scene_hash != unit_key(f, v, k) || set->tallies.size() != nw)
         throw std::runtime_error(fmt::format("{} does not belong to part {} of {} of variant {} of this sweep; "
                                              "remove it to run that part again",
-                                             p.string(), k + 1, f.split_photons, f.variants[v].id));
+                                             p.string(), k + 1, f.split_photons, folder_variant(f, v).id));
       for (std::size_t i = 0; i < nw; ++i) total[i] += set->tallies[i];
       try {
         const RunFacts part = run_facts_from_json(nlohmann::json::parse(read_text_file(part_facts(f, v, k))));
@@ -134,13 +170,15 @@ bool assemble(const SweepFolder& f, std::size_t v, const LoadedVariant* loaded, 
       }
     }
     for (std::size_t i = 0; i < nw; ++i)
-      if (total[i].photons != f.variants[v].photons)
+      if (total[i].photons != folder_variant(f, v).photons)
         throw std::runtime_error(fmt::format("the parts of variant {} hold {} photons at wavelength {}, expected {}",
-                                             f.variants[v].id, total[i].photons, i, f.variants[v].photons));
+                                             folder_variant(f, v).id, total[i].photons, i,
+                                             folder_variant(f, v).photons));
     Results r;
     write_result(f, v, variant_files(f, v, *loaded, total, facts, &r));
     if (line)
-      *line = fmt::format("{}: all {} parts done, result written: {}", f.variants[v].id, f.split_photons, jg_text(r));
+      *line = fmt::format("{}: all {} parts done, result written: {}", folder_variant(f, v).id, f.split_photons,
+                          jg_text(r));
     std::error_code ec;
     fs::remove_all(parts_dir(f, v), ec);
     return true;
@@ -154,7 +192,7 @@ bool assemble(const SweepFolder& f, std::size_t v, const LoadedVariant* loaded, 
 
 UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOptions& opt) {
   const WorkUnit u = unit_at(f, unit);
-  const SweepFolderVariant& var = f.variants.at(u.variant);
+  const SweepFolderVariant& var = folder_variant(f, u.variant);
   const std::string name = f.split_photons == 1 ? var.id : fmt::format("{} part {}/{}", var.id, u.part + 1, f.split_photons);
   UnitReport rep;
   if (result_complete(f, u.variant)) {
@@ -168,11 +206,11 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
     return rep;
   }
 
-  // The start mark tells `status` that the unit runs; it goes on every way
-  // out of here (finished, interrupted, error), and stays only when the
-  // process is killed.
+  // The start mark tells `status` that the unit runs (and which process and
+  // SLURM job runs it); it goes on every way out of here (finished,
+  // interrupted, error), and stays only when the process is killed.
   fs::create_directories(unit_started(f, u).parent_path());
-  write_file_atomically(unit_started(f, u), fmt::format("host {} pid {}\n", host_name(), ::getpid()));
+  write_run_mark(unit_started(f, u), this_run_mark());
   struct StartMark {
     fs::path path;
     ~StartMark() { remove_quietly(path); }
@@ -184,14 +222,26 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
   d.scene_hash = unit_key(f, u.variant, u.part);
   d.batch = opt.batch;
   d.checkpoint_seconds = opt.checkpoint_seconds;
-  d.progress = opt.progress;
   d.stop = opt.stop;
   if (f.split_photons > 1) std::tie(d.first_photon, d.last_photon) = part_range(var.photons, u.part, f.split_photons);
   const bool resumed = fs::exists(d.checkpoint);
+  // Trace time across attempts: earlier attempts' seconds (kept beside the
+  // checkpoint, saved as often as the checkpoint) plus this one's.
+  const fs::path time_file = unit_trace_time(f, u);
+  const double earlier = earlier_trace_seconds(time_file, d.checkpoint, d.scene_hash);
   const auto t0 = Clock::now();
+  auto last_time_save = t0;
+  d.progress = [&](double x) {
+    if (opt.progress) opt.progress(x);
+    if (seconds_since(last_time_save) >= std::max(1.0, opt.checkpoint_seconds)) {
+      last_time_save = Clock::now();
+      save_trace_seconds(time_file, d.scene_hash, earlier + seconds_since(t0));
+    }
+  };
   DriveResult res = drive_run(*lv.run, d);
-  const double trace_seconds = seconds_since(t0);
+  const double trace_seconds = earlier + seconds_since(t0);
   if (!res.complete) {
+    save_trace_seconds(time_file, d.scene_hash, trace_seconds);
     rep.outcome = UnitReport::interrupted;
     rep.line = fmt::format("{}: interrupted; the photons traced so far are kept in {}", name, d.checkpoint.string());
     return rep;
@@ -205,6 +255,7 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
     Results r;
     write_result(f, u.variant, variant_files(f, u.variant, lv, res.tallies, facts, &r));
     remove_quietly(d.checkpoint);
+    remove_quietly(time_file);
     rep.line = fmt::format("{}: done{}, {} ({:.1f} s, {} photons, {})", name, resumed ? " (resumed)" : "", jg_text(r),
                            trace_seconds, photons, threads_text());
     return rep;
@@ -213,6 +264,7 @@ UnitReport run_work_unit(const SweepFolder& f, std::size_t unit, const UnitRunOp
                  lv.run->layout);
   write_file_atomically(part_facts(f, u.variant, u.part), run_facts_json(facts).dump(2) + "\n");
   remove_quietly(d.checkpoint);
+  remove_quietly(time_file);
   rep.line = fmt::format("{}: done{} (photons {} to {} of {} per wavelength, {:.1f} s, {})", name,
                          resumed ? " (resumed)" : "", d.first_photon, d.last_photon, var.photons, trace_seconds,
                          threads_text());

@@ -1,6 +1,8 @@
 // SLURM job scripts of a sweep. See slurm_scripts.hpp.
 #include "sweep/slurm_scripts.hpp"
 
+#include "sweep/status.hpp"  // array_ranges
+
 #include <fmt/format.h>
 
 #include <cctype>
@@ -48,12 +50,24 @@ void check_slurm_requests(const SlurmRequests& r) {
         fmt::format("--mem {}: not a SLURM memory size; allowed: a whole number with K, M, G or T, e.g. 2G", r.mem));
 }
 
-nlohmann::ordered_json slurm_requests_json(const SlurmRequests& r, const fs::path& binary) {
+nlohmann::ordered_json slurm_requests_json(const SlurmRequests& r, const JobProgram& program) {
   return {{"cpus_per_task", r.cpus_per_task},
           {"time", r.time},
           {"mem", r.mem},
           {"partition", r.partition},
-          {"lumtrap", binary.string()}};
+          {"throttle", r.throttle},
+          {"lumtrap", program.binary.string()},
+          {"materials", program.materials.string()}};
+}
+
+std::size_t planned_throttle(const nlohmann::ordered_json& requests) {
+  return requests.is_object() ? requests.value("throttle", std::size_t(0)) : 0;
+}
+
+std::string array_spec(std::size_t tasks, std::size_t throttle) {
+  std::string s = tasks == 1 ? "0" : fmt::format("0-{}", tasks - 1);
+  if (throttle) s += fmt::format("%{}", throttle);
+  return s;
 }
 
 void require_plain_path(const fs::path& p, const char* what) {
@@ -70,28 +84,39 @@ std::string submit_line(const SweepFolder& f) {
                      f.dir.string());
 }
 
-std::string submit_script(const SweepFolder& f, const SlurmRequests& r, const fs::path& binary) {
+std::string resubmit_line(const SweepFolder& f, const std::vector<std::size_t>& tasks) {
+  std::string spec = array_ranges(tasks);
+  if (const std::size_t t = planned_throttle(f.requests)) spec += fmt::format("%{}", t);
+  return fmt::format("A=$(sbatch --parsable --array={1} {0}/submit.sbatch) && sbatch --dependency=afterok:$A "
+                     "--kill-on-invalid-dep=yes {0}/merge.sbatch",
+                     f.dir.string(), spec);
+}
+
+std::string submit_script(const SweepFolder& f, const SlurmRequests& r, const JobProgram& program) {
   std::string s = sbatch_header(f, r, "array job");
   s += fmt::format("#SBATCH --job-name={}\n", job_name(f));
-  s += fmt::format("#SBATCH --array=0-{}\n", f.tasks - 1);
+  s += fmt::format("#SBATCH --array={}\n", array_spec(f.tasks, r.throttle));
   s += fmt::format("#SBATCH --cpus-per-task={}\n", r.cpus_per_task);
   s += fmt::format("#SBATCH --time={}\n", r.time);
   s += fmt::format("#SBATCH --mem={}\n", r.mem);
-  s += fmt::format("#SBATCH --output={}/logs/task_%a.log\n", f.dir.string());
+  s += fmt::format("#SBATCH --output={}/task_%a.log\n", log_dir(f).string());
   s += "#SBATCH --open-mode=append\n";
-  s += fmt::format("exec '{}' sweep task '{}'\n", binary.string(), f.dir.string());
+  s += "# the lumtrap binary and materials this sweep was planned with:\n";
+  s += fmt::format("export LUMTRAP_MATERIALS='{}'\n", program.materials.string());
+  s += fmt::format("exec '{}' sweep task '{}' --plan-id {}\n", program.binary.string(), f.dir.string(), f.plan_id);
   return s;
 }
 
-std::string merge_script(const SweepFolder& f, const SlurmRequests& r, const fs::path& binary) {
+std::string merge_script(const SweepFolder& f, const SlurmRequests& r, const JobProgram& program) {
   std::string s = sbatch_header(f, r, "merge job");
   s += fmt::format("#SBATCH --job-name={}-merge\n", job_name(f));
   s += "#SBATCH --cpus-per-task=1\n";
   s += fmt::format("#SBATCH --time={}\n", r.time);
   s += fmt::format("#SBATCH --mem={}\n", r.mem);
-  s += fmt::format("#SBATCH --output={}/logs/merge.log\n", f.dir.string());
+  s += fmt::format("#SBATCH --output={}\n", merge_log(f).string());
   s += "#SBATCH --open-mode=append\n";
-  s += fmt::format("exec '{}' sweep merge '{}'\n", binary.string(), f.dir.string());
+  s += fmt::format("export LUMTRAP_MATERIALS='{}'\n", program.materials.string());
+  s += fmt::format("exec '{}' sweep merge '{}'\n", program.binary.string(), f.dir.string());
   return s;
 }
 
