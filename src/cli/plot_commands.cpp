@@ -32,17 +32,18 @@ namespace fs = std::filesystem;
 
 namespace {
 
-/// The folder that holds the lumtrap_plots package: <exe dir>/../share/lumtrap/python
-/// in an installed tree, else the source tree's scripts/ (compile-time
-/// LUMTRAP_PYTHON_DIR). The one place to change when the install layout changes.
+/// The folder that holds the lumtrap_plots package: <exe dir>/../share/lumtrap/python,
+/// in an installed tree and in the build tree (where CMake links it to
+/// scripts/lumtrap_plots), as for the materials; no source path is compiled in.
+/// The one place to change when the install layout changes.
 fs::path plot_package_dir() {
   std::error_code ec;
   const fs::path exe = fs::read_symlink("/proc/self/exe", ec);
   std::vector<fs::path> tried;
-  if (!ec) tried.push_back(exe.parent_path() / ".." / "share" / "lumtrap" / "python");
-#ifdef LUMTRAP_PYTHON_DIR
-  tried.emplace_back(LUMTRAP_PYTHON_DIR);
-#endif
+  if (!ec) {
+    tried.push_back((exe.parent_path() / ".." / "share" / "lumtrap" / "python").lexically_normal());  // installed
+    tried.push_back(exe.parent_path() / "share" / "lumtrap" / "python");                             // build tree
+  }
   for (const auto& dir : tried)
     if (fs::is_regular_file(dir / "lumtrap_plots" / "__main__.py", ec)) return fs::weakly_canonical(dir, ec);
   std::string where;
