@@ -111,7 +111,7 @@ std::string scene_toml(const Scene& s, bool full, const PathText& path_text) {
   out += "\n[illumination]\n";
   out += fmt::format("spectrum = {}\n", ill.spectrum == SpectrumKind::file
                                             ? toml_quote(path_text(ill.spectrum_file.string()))
-                                            : "\"" + std::string(word_of(ill.spectrum, kSpectrumWords)) + "\"");
+                                            : fmt::format("\"{}\"", word_of(ill.spectrum, kSpectrumWords)));
   out += fmt::format("kind = \"{}\"\n", word_of(ill.kind, kIlluminationWords));
   if (ill.kind == IlluminationKind::collimated) {
     out += fmt::format("polar_angle = {}\n", toml_quote(format_angle_rad(ill.polar_rad)));

@@ -3,13 +3,8 @@
 # overwrite, clear errors without half-written results, interruption and
 # resume with identical numbers, the planar solver, check and materials.
 set -euo pipefail
-BIN=${LUMTRAP_BINARY:?set LUMTRAP_BINARY}
-SRC=${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}
-W=$(mktemp -d /tmp/lumtrap-cli.XXXXXX)
-trap 'rm -rf "$W"' EXIT
+. "${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}/tests/common/shell_fixture.sh" test_cli_run
 cd "$W"
-fail() { echo "FAIL: $*" >&2; exit 1; }
-ok() { echo "ok: $*"; }
 
 cat > small.toml <<'TOML'
 [wafer]

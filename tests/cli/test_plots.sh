@@ -15,14 +15,8 @@
 #    matplotlib, no python) are one line on stderr with what to do, exit 1.
 # Env: LUMTRAP_BINARY, LUMTRAP_SOURCE_DIR.
 set -uo pipefail
-BIN=${LUMTRAP_BINARY:?set LUMTRAP_BINARY}
-SRC=${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}
-PY=${LUMTRAP_PYTHON:-$( [ -x /usr/bin/python3 ] && echo /usr/bin/python3 || echo python3 )}
+. "${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}/tests/common/shell_fixture.sh" test_plots
 CHECK="$PY $SRC/tests/cli/chart_checks.py"
-W=$(mktemp -d "${TMPDIR:-/tmp}/lumtrap-plots.XXXXXX")
-trap 'rm -rf "$W"' EXIT
-fail() { echo "FAIL: test_plots: $*" >&2; exit 1; }
-ok() { echo "ok: $*"; }
 cd "$W" || fail "cannot enter $W"
 
 "$BIN" run "$SRC/scenes/k7_recipe_b_standard.toml" --photons 300 -o b > /dev/null 2>&1 || fail "lumtrap run"

@@ -16,13 +16,7 @@
 # scripts/install-deps.sh cannot install it.
 # Env: LUMTRAP_BINARY, LUMTRAP_SOURCE_DIR.
 set -uo pipefail
-BIN=${LUMTRAP_BINARY:?set LUMTRAP_BINARY}
-SRC=${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}
-PY=${LUMTRAP_PYTHON:-$( [ -x /usr/bin/python3 ] && echo /usr/bin/python3 || echo python3 )}
-W=$(mktemp -d "${TMPDIR:-/tmp}/lumtrap-report.XXXXXX")
-trap 'rm -rf "$W"' EXIT
-fail() { echo "FAIL: test_report_chromium: $*" >&2; exit 1; }
-ok() { echo "ok: $*"; }
+. "${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}/tests/common/shell_fixture.sh" test_report_chromium
 
 find_chromium() { command -v chromium || command -v chromium-browser || true; }
 CHROME=$(find_chromium)

@@ -3,10 +3,7 @@
 # so the whole set takes seconds), and `lumtrap planar` on the planar ones;
 # every run keeps unresolved photons below 1e-4 of those launched.
 set -euo pipefail
-BIN=${LUMTRAP_BINARY:?set LUMTRAP_BINARY}
-SRC=${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}
-W=$(mktemp -d /tmp/lumtrap-scenes.XXXXXX)
-trap 'rm -rf "$W"' EXIT
+. "${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}/tests/common/shell_fixture.sh" test_scenes
 n=0
 for scene in "$SRC"/scenes/*.toml; do
   name=$(basename "$scene" .toml)

@@ -5,11 +5,7 @@
 # run and check agree with the surface it came from; option errors and an
 # existing folder refused before any work.
 set -euo pipefail
-BIN=${LUMTRAP_BINARY:?set LUMTRAP_BINARY}
-SRC=${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}
-W=$(mktemp -d /tmp/lumtrap-texture.XXXXXX)
-trap 'rm -rf "$W"' EXIT
-fail() { echo "FAIL: $*" >&2; exit 1; }
+. "${LUMTRAP_SOURCE_DIR:?set LUMTRAP_SOURCE_DIR}/tests/common/shell_fixture.sh" test_texture_command
 
 # 1. random pyramids of recipe B (40 um tile), front only, 400 pixels per side
 "$BIN" texture "$SRC/scenes/k7_recipe_b_standard.toml" -o "$W/b" --surface front --image-pixels 400 > "$W/b.out" \
