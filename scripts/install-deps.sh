@@ -15,6 +15,7 @@ PKGS=(
   python3
   python3-matplotlib   # lumtrap plot / lumtrap report (scripts/lumtrap_plots)
   chromium             # headless browser for the report test (tests/cli/test_report_chromium.sh)
+  clang libclang-rt-14-dev   # libFuzzer and sanitizer runtimes (scripts/sanitize-and-fuzz.sh)
 )
 
 if [ "${1:-}" = "--runtime" ]; then

@@ -66,8 +66,10 @@ def scenes():
     out = []
     for d in (os.path.join(ROOT, "scenes"), os.path.join(HERE, "scenes")):
         for name in sorted(os.listdir(d)):
-            if name.endswith(".toml"):
-                out.append(os.path.join(d, name))
+            path = os.path.join(d, name)
+            # a sweep file is run by the sweep commands, not by `run`
+            if name.endswith(".toml") and not re.search(r"^\[sweep", open(path).read(), re.M):
+                out.append(path)
     return out
 
 
