@@ -2,7 +2,9 @@
 
 Input: sweep.json (format "lumtrap sweep N"), merged.csv (`id`, parameter
 columns — `key [unit]` with plain numbers, or raw values —, `J_G [mA/cm2]`,
-`J_G_sigma [mA/cm2]`, `<loss> [mA/cm2]`, `<loss>_sigma [mA/cm2]`, ...,
+`J_G_sigma [mA/cm2]`, `J_G_minus_reference [mA/cm2]` and its `_sigma` (the
+error of the difference from paired photon groups; empty when unknown),
+`<loss> [mA/cm2]`, `<loss>_sigma [mA/cm2]`, ...,
 `J_max [mA/cm2]`, `photons`), merged.json (missing variants, run facts) and
 one variant's summary.json for the scene name, spectrum and loss groups.
 Output: a SweepFolder; currents in mA/cm².
@@ -105,7 +107,7 @@ def read_sweep_folder(path: str) -> SweepFolder:
         params.append(Parameter(header[i], values, np.array(nums) if all(n is not None for n in nums) else None))
     losses = {}
     for h in header[jg + 2:]:
-        if h.endswith(" [mA/cm2]") and not h.endswith("_sigma [mA/cm2]") and h != "J_max [mA/cm2]":
+        if h.endswith(" [mA/cm2]") and not h.endswith("_sigma [mA/cm2]") and not h.startswith("J_"):
             name = h[: -len(" [mA/cm2]")]
             losses[name] = (column(h), column(f"{name}_sigma [mA/cm2]") if f"{name}_sigma [mA/cm2]" in col
                             else np.zeros(len(body)))

@@ -306,10 +306,14 @@ void add_merge(CLI::App& sweep) {
   auto* cmd = sweep.add_subcommand("merge", "combine the variants' results into merged.csv and merged.json");
   auto dir = std::make_shared<std::string>();
   cmd->add_option("dir", *dir, "sweep folder")->required()->check(CLI::ExistingDirectory);
-  cmd->callback([dir] {
+  auto reference = std::make_shared<std::string>();
+  cmd->add_option("--reference", *reference,
+                  "variant id whose J_G the column J_G_minus_reference subtracts (default: the first finished variant)");
+  cmd->callback([dir, reference] {
     const SweepFolder f = load_sweep_folder(*dir);
     require_same_tool_version(f);
-    const MergeReport r = merge_sweep(f, [](const SweepFolder& sf, std::size_t v) { assemble_variant(sf, v); });
+    const MergeReport r =
+        merge_sweep(f, [](const SweepFolder& sf, std::size_t v) { assemble_variant(sf, v); }, *reference);
     std::cout << fmt::format("merged {} of {} variants into {}/merged.csv and merged.json\n", r.merged,
                              f.variant_count, f.dir.string());
     if (r.missing.empty()) return;

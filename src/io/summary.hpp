@@ -18,7 +18,7 @@
 namespace lumtrap {
 
 /// The format of result folders; folders of another format are refused.
-inline constexpr const char* kResultFormat = "lumtrap result 2";
+inline constexpr const char* kResultFormat = "lumtrap result 3";
 
 /// The current of one end state.
 struct StateCurrent {
@@ -44,6 +44,16 @@ struct Summary {
   double J_G_sigma_mA_cm2 = 0;
   std::vector<StateCurrent> losses;  ///< every end state but absorbed_silicon, in table order
   double closure_mA_cm2 = 0;         ///< J_G + losses - J_max (round-off)
+  /// J_G of each paired photon group (trace/tallies.hpp TallyLayout::photon_groups;
+  /// empty for exact results or when a group has no photon at some wavelength).
+  /// Two results of the same seed and random streams pair group by group:
+  /// the spread of the groups' differences is the error of the difference.
+  std::vector<double> J_G_groups_mA_cm2;
+  /// Batch-means cross-check of J_G_sigma: the spread of J_G_groups / sqrt(groups).
+  double J_G_sigma_groups_mA_cm2 = 0;
+  /// "common" (variants of a sweep share random streams; runs with the same
+  /// seed do too) or "independent" (each sweep variant its own streams).
+  std::string random_streams = "common";
   // the run
   std::uint64_t photons = 0;         ///< launched, all wavelengths (0 for exact results)
   std::uint64_t photons_per_wavelength_min = 0;
@@ -91,6 +101,9 @@ void visit_summary(S& s, Visit&& v) {
   v("J_G_sigma_mA_cm2", s.J_G_sigma_mA_cm2);
   v("losses", s.losses);
   v("closure_mA_cm2", s.closure_mA_cm2);
+  v("J_G_groups_mA_cm2", s.J_G_groups_mA_cm2);
+  v("J_G_sigma_groups_mA_cm2", s.J_G_sigma_groups_mA_cm2);
+  v("random_streams", s.random_streams);
   v("photons", s.photons);
   v("photons_per_wavelength_min", s.photons_per_wavelength_min);
   v("photons_per_wavelength_max", s.photons_per_wavelength_max);

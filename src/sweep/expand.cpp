@@ -253,8 +253,10 @@ std::vector<Axis> read_axes(const toml::table& sweep, const fs::path& file) {
                                      "[[sweep.zip]] tables of \"scene.key\" = [values] of the same length",
                                      where(file, v.source()), toml_type_name(v)));
       }
+    } else if (name == "random_streams") {
+      continue;  // read by random_streams_of()
     } else {
-      throw SweepError(fmt::format("{}: key 'sweep.{}': unknown key; allowed keys in [sweep]: grid, zip",
+      throw SweepError(fmt::format("{}: key 'sweep.{}': unknown key; allowed keys in [sweep]: grid, zip, random_streams",
                                    where(file, v.source()), name));
     }
   }
@@ -274,6 +276,20 @@ std::vector<Axis> read_axes(const toml::table& sweep, const fs::path& file) {
       seen.push_back({a.keys[k], a.wheres[k]});
     }
   return axes;
+}
+
+// [sweep] random_streams: "common" (the default: every variant draws the
+// random numbers of photon i at wavelength j from the same stream, so
+// differences between variants have small errors) or "independent".
+std::string random_streams_of(const toml::table& sweep, const fs::path& file) {
+  const toml::node* n = sweep.get("random_streams");
+  if (!n) return "common";
+  const auto* text = n->as_string();
+  if (!text || (text->get() != "common" && text->get() != "independent"))
+    throw SweepError(fmt::format("{}: key 'sweep.random_streams': value {}; allowed: \"common\" (variants share "
+                                 "random streams: small errors of differences) or \"independent\"",
+                                 where(file, n->source()), toml_value_text(*n)));
+  return text->get();
 }
 
 }  // namespace
@@ -417,6 +433,7 @@ Sweep expand_sweep(const toml::table& root, const fs::path& file, const SceneChe
 
   Sweep out;
   out.file = file;
+  out.random_streams = random_streams_of(*sweep_table, file);
   for (const Axis& a : axes)
     for (const auto& k : a.keys) out.keys.push_back(k);
   const int width = std::max<int>(4, int(std::to_string(total - 1).size()));

@@ -7,6 +7,9 @@
 //   "wafer.thickness" = ["120 um", "160 um"]
 //   "front.films[0].thickness" = "60 nm .. 90 nm step 5 nm"
 //
+//   random_streams = "independent"     # optional; default "common" (variants share
+//                                      # random streams, so differences have small errors)
+//
 //   [[sweep.zip]]                      # one axis whose lists move together
 //   "front.random_pyramids.min" = ["1 um", "2 um"]
 //   "front.random_pyramids.max" = ["3 um", "5 um"]
@@ -45,7 +48,7 @@ struct SweepValue {
 };
 
 struct SweepVariant {
-  std::size_t index = 0;            ///< position in expansion order; keys the variant's random numbers
+  std::size_t index = 0;            ///< position in expansion order; keys its random numbers with independent streams
   std::string id;                   ///< "v0000", "v0001", ...
   std::vector<SweepValue> values;   ///< one per swept key, in Sweep::keys order
   Scene scene;                      ///< validated
@@ -56,6 +59,7 @@ struct SweepVariant {
 struct Sweep {
   std::filesystem::path file;        ///< the scene file holding [sweep]
   std::vector<std::string> keys;     ///< swept keys: axes in written order, keys of a zip in written order
+  std::string random_streams = "common";  ///< [sweep] random_streams: "common" or "independent"
   std::vector<SweepVariant> variants;
 };
 

@@ -7,6 +7,7 @@
 #include <map>
 #include <stdexcept>
 
+#include "io/paired_difference.hpp"
 #include "io/summary.hpp"
 #include "io/text_file.hpp"
 
@@ -16,10 +17,10 @@ namespace fs = std::filesystem;
 using ojson = nlohmann::ordered_json;
 
 namespace {
-constexpr const char* kMergeFormat = "lumtrap sweep merge 2";
+constexpr const char* kMergeFormat = "lumtrap sweep merge 3";
 }  // namespace
 
-MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
+MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble, const std::string& reference) {
   MergeReport report;
   std::vector<std::string> foreign;
   std::vector<std::pair<std::size_t, Summary>> rows;
@@ -81,6 +82,26 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
     throw std::runtime_error(msg);
   }
 
+  // The reference variant of the differences.
+  const Summary* ref = rows.empty() ? nullptr : &rows.front().second;
+  if (!reference.empty()) {
+    ref = nullptr;
+    for (const auto& [v, s] : rows)
+      if (s.variant == reference) ref = &s;
+    if (!ref)
+      throw std::invalid_argument(fmt::format("reference variant '{}': no finished variant of {} has that id; allowed: "
+                                              "an id of variants.csv whose result is complete",
+                                              reference, f.dir.string()));
+  }
+  // J_G - J_G(reference); its error from the paired groups when both have
+  // them (sigma < 0: not known, e.g. fewer photons than groups).
+  auto difference = [&](const Summary& s) {
+    Difference d{s.J_G_mA_cm2 - ref->J_G_mA_cm2, -1.0};
+    if (s.J_G_groups_mA_cm2.size() >= 2 && s.J_G_groups_mA_cm2.size() == ref->J_G_groups_mA_cm2.size())
+      d = paired_difference(s.J_G_mA_cm2, s.J_G_groups_mA_cm2, ref->J_G_mA_cm2, ref->J_G_groups_mA_cm2);
+    return d;
+  };
+
   std::string csv = "id";
   auto add = [&csv](const std::string& cell) {
     csv += ',';
@@ -89,6 +110,8 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
   for (const auto& h : f.headers) add(h);
   add("J_G [mA/cm2]");
   add("J_G_sigma [mA/cm2]");
+  add("J_G_minus_reference [mA/cm2]");
+  add("J_G_minus_reference_sigma [mA/cm2]");
   for (const auto& l : losses) {
     add(l + " [mA/cm2]");
     add(l + "_sigma [mA/cm2]");
@@ -105,6 +128,7 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
   j["merged"] = rows.size();
   j["complete"] = report.missing.empty();
   j["columns"] = f.headers;
+  j["reference"] = ref ? ref->variant : std::string();
   j["variants"] = ojson::array();
   for (const auto& [v, s] : rows) {
     const SweepFolderVariant& var = folder_variant(f, v);
@@ -112,6 +136,9 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
     for (const auto& c : var.cells) add(c);
     add(fmt::format("{}", s.J_G_mA_cm2));
     add(fmt::format("{}", s.J_G_sigma_mA_cm2));
+    const Difference diff = difference(s);
+    add(fmt::format("{}", diff.value));
+    add(diff.sigma < 0 ? std::string() : fmt::format("{}", diff.sigma));
     ojson lj = ojson::object();
     for (const auto& l : losses) {
       if (const StateCurrent* c = find_loss(s, l)) {
@@ -131,12 +158,14 @@ MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble) {
                              {"parameters", variant_parameters(f, var)},
                              {"J_G_mA_cm2", s.J_G_mA_cm2},
                              {"J_G_sigma_mA_cm2", s.J_G_sigma_mA_cm2},
+                             {"J_G_minus_reference_mA_cm2", diff.value},
                              {"losses", lj},
                              {"J_max_mA_cm2", s.J_max_mA_cm2},
                              {"photons", s.photons},
                              {"trace_seconds", s.trace_seconds},
                              {"peak_memory_MB", s.peak_memory_MB},
                              {"result", "variants/" + var.id + "/result"}});
+    if (diff.sigma >= 0) j["variants"].back()["J_G_minus_reference_sigma_mA_cm2"] = diff.sigma;
   }
   j["missing"] = ojson::array();
   for (const auto& [v, st] : report.missing)

@@ -1,9 +1,11 @@
 #pragma once
 // One table of a sweep: merged.csv and merged.json, a row per finished
-// variant with its parameters, J_G and every loss with σ in mA/cm², J_max
-// and photons, read from the variants' summary.json files (io/summary.hpp).
+// variant with its parameters, J_G and every loss with σ in mA/cm², J_G
+// against a reference variant with the error of the difference, J_max and
+// photons, read from the variants' summary.json files (io/summary.hpp).
 #include <cstddef>
 #include <functional>
+#include <string>
 #include <utility>
 #include <vector>
 
@@ -28,6 +30,12 @@ using AssembleVariant = std::function<void(const SweepFolder&, std::size_t varia
 /// another sweep or tool version (hash check); missing variants are
 /// reported. merged.csv holds every number in its shortest exact text, so
 /// equal tallies give equal bytes.
-MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble = {});
+/// Every row also holds J_G minus J_G of a reference variant (`reference`:
+/// its id; empty = the first finished variant) with the error of that
+/// difference from the variants' paired photon groups (io/paired_difference.hpp):
+/// with common random streams ([sweep] random_streams, the default) it is
+/// much smaller than the two errors combined. std::invalid_argument, writing
+/// nothing, when `reference` names no finished variant.
+MergeReport merge_sweep(const SweepFolder& f, const AssembleVariant& assemble = {}, const std::string& reference = {});
 
 }  // namespace lumtrap

@@ -17,7 +17,7 @@ using ojson = nlohmann::ordered_json;
 
 namespace {
 
-constexpr const char* kFolderFormat = "lumtrap sweep 3";
+constexpr const char* kFolderFormat = "lumtrap sweep 4";
 
 ojson header_json(const SweepFolder& f) {
   ojson j;
@@ -31,6 +31,7 @@ ojson header_json(const SweepFolder& f) {
   j["per_task"] = f.per_task;
   j["tasks"] = f.tasks;
   j["lean"] = f.lean;
+  j["random_streams"] = f.random_streams;
   j["requests"] = f.requests;
   j["keys"] = f.keys;
   j["headers"] = f.headers;
@@ -132,6 +133,7 @@ SweepFolder write_sweep_plan(const Sweep& sweep, const std::string& sweep_text, 
   f.split_photons = opt.split_photons;
   f.plan_id = plan_id_of(opt.per_task, opt.split_photons);
   f.lean = opt.lean;
+  f.random_streams = sweep.random_streams;
   f.requests = requests;
   f.keys = sweep.keys;
   f.variant_count = sweep.variants.size();
@@ -215,6 +217,7 @@ SweepFolder load_sweep_header(const fs::path& dir) {
     f.per_task = j.at("per_task");
     f.tasks = j.at("tasks");
     f.lean = j.at("lean");
+    f.random_streams = j.at("random_streams");
     f.requests = j.value("requests", ojson::object());
     f.keys = j.at("keys").get<std::vector<std::string>>();
     f.headers = j.at("headers").get<std::vector<std::string>>();

@@ -75,6 +75,7 @@ struct SweepFolder {
   std::uint32_t split_photons = 1;
   std::size_t tasks = 0;                ///< array tasks: ceil(units / per_task)
   bool lean = false;
+  std::string random_streams = "common";  ///< Sweep::random_streams
   nlohmann::ordered_json requests;      ///< resources asked of the scheduler, binary and materials (as planned)
   std::size_t line_bytes = 0;           ///< length of every line of variants.jsonl, '\n' included
   /// The variants read: all of them (load_sweep_folder), one task's

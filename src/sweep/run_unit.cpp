@@ -66,7 +66,9 @@ LoadedVariant load_variant(const SweepFolder& f, std::size_t v) {
                                          var.id, identity, var.scene_hash, base.string()));
   LoadedVariant lv;
   lv.scene_text = resolved_scene_toml(scene);
-  lv.run = prepare_run(scene, var.index);
+  // Common random numbers: every variant keys its streams alike (variant 0),
+  // so photon i of wavelength j draws the same numbers in every variant.
+  lv.run = prepare_run(scene, f.random_streams == "independent" ? var.index : 0);
   lv.setup_seconds = seconds_since(t0);
   return lv;
 }
@@ -90,6 +92,7 @@ std::vector<OutputFile> variant_files(const SweepFolder& f, std::size_t v, const
   s.variant_index = var.index;
   s.parameters = variant_parameters(f, var);
   s.split_photons = f.split_photons;
+  s.random_streams = f.random_streams;
   apply_run_facts(s, facts);
   std::vector<OutputFile> files = result_files(r, lv.scene_text);
   if (f.lean) std::erase_if(files, [](const OutputFile& o) { return lean_drops(o.name); });

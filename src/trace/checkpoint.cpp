@@ -13,7 +13,7 @@ namespace lumtrap {
 
 namespace {
 
-constexpr const char* kTallyFormat = "lumtrap tallies 2";
+constexpr const char* kTallyFormat = "lumtrap tallies 3";
 
 nlohmann::json tally_json(const WavelengthTally& t) {
   nlohmann::json j;

@@ -20,6 +20,12 @@ struct TallyLayout {
   int azimuth_bins = 36;               ///< 10° bins of the azimuth
   int pass_bins = 64;                  ///< passes 0..62, last bin = 63 or more
   int hit_bins = 8;                    ///< surface hits 0..6, last bin = 7 or more
+  /// Paired groups: photon i of every wavelength counts in group i mod
+  /// photon_groups as well. Runs with the same seed draw the same random
+  /// numbers for the same photon index (common random numbers), so group g
+  /// of two variants is a paired sample and the spread of the groups'
+  /// differences gives the standard error of a difference (batch means).
+  int photon_groups = 32;
 };
 
 /// The end-state bins of the scene and log-spaced depth bins (20 per decade
@@ -38,6 +44,9 @@ struct WavelengthTally {
   std::vector<std::uint64_t> rear_angle;       ///< arrivals at the rear zone by [polar][azimuth]
   std::vector<std::uint64_t> passes_absorbed;  ///< absorbed_silicon by number of bulk passes
   std::vector<std::uint64_t> front_hits;       ///< reflected_front by number of front hits
+  // paired groups (TallyLayout::photon_groups)
+  std::vector<std::uint64_t> photons_by_group;  ///< launched, by group
+  std::vector<std::uint64_t> ended_by_group;    ///< [group][end-state bin]
 
   explicit WavelengthTally(const TallyLayout& layout = {});
   WavelengthTally& operator+=(const WavelengthTally& other);
@@ -57,7 +66,7 @@ inline constexpr std::array<std::pair<std::string_view, std::uint64_t Wavelength
     {"interactions", &WavelengthTally::interactions},
     {"bulk_passes", &WavelengthTally::bulk_passes},
 }};
-inline constexpr std::array<std::pair<std::string_view, std::vector<std::uint64_t> WavelengthTally::*>, 6>
+inline constexpr std::array<std::pair<std::string_view, std::vector<std::uint64_t> WavelengthTally::*>, 8>
     kTallyVectors = {{
         {"ended", &WavelengthTally::ended},
         {"depth", &WavelengthTally::depth},
@@ -65,6 +74,8 @@ inline constexpr std::array<std::pair<std::string_view, std::vector<std::uint64_
         {"rear_angle", &WavelengthTally::rear_angle},
         {"passes_absorbed", &WavelengthTally::passes_absorbed},
         {"front_hits", &WavelengthTally::front_hits},
+        {"photons_by_group", &WavelengthTally::photons_by_group},
+        {"ended_by_group", &WavelengthTally::ended_by_group},
     }};
 
 }  // namespace lumtrap

@@ -30,6 +30,7 @@ struct Photon {
   double optical_depth_left = 0;  // Beer-Lambert budget: absorbed when α·path exceeds it
   int interactions = 0;
   int passes = 0;
+  std::uint32_t group = 0;  // paired group: photon index mod TallyLayout::photon_groups
 };
 
 // The nearest hit of a single-precision Embree ray from o along d within
@@ -129,14 +130,16 @@ double wafer_z(const TraceContext& ctx, Zone zone, double z_local) {
   return zone == Zone::rear ? ctx.model->rear_origin_z + z_local : ctx.model->front_origin_z + z_local;
 }
 
-// Ends the photon in instance k of state s.
-inline void end_in(const TraceContext& ctx, WavelengthTally& t, EndState s, int k = 0) {
-  ++t.ended[ctx.layout->bins.slot(s, k)];
+// Ends the photon in instance k of state s (and in its paired group).
+inline void end_in(const TraceContext& ctx, const Photon& ph, WavelengthTally& t, EndState s, int k = 0) {
+  const std::size_t slot = ctx.layout->bins.slot(s, k);
+  ++t.ended[slot];
+  ++t.ended_by_group[std::size_t(ph.group) * ctx.layout->bins.size() + slot];
 }
 
 void tally_absorbed_si(const TraceContext& ctx, const Photon& ph, double x, double y, double z_wafer,
                        WavelengthTally& t) {
-  end_in(ctx, t, EndState::absorbed_silicon);
+  end_in(ctx, ph, t, EndState::absorbed_silicon);
   const double surface = ctx.model->front_origin_z + front_height(ctx, wrap(x, ctx.model->front.period),
                                                                   wrap(y, ctx.model->front.period));
   const double depth = std::max(0.0, surface - z_wafer);
@@ -221,7 +224,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   const bool from_inside = dn > 0;  // travelling from the silicon to the outside
   const bool in_silicon = ph.medium == Medium::silicon;
   if (from_inside != in_silicon || dn == 0.0) {
-    end_in(ctx, t, EndState::lost);  // the ray met the surface from the side it is not on
+    end_in(ctx, ph, t, EndState::lost);  // the ray met the surface from the side it is not on
     return Outcome::ended;
   }
   const Eigen::Vector3d m = from_inside ? Eigen::Vector3d(-nout) : nout;  // normal on the incident side
@@ -285,7 +288,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   if (xi <= R + T || table.layers == 0) {  // transmission (no films: nothing else can happen)
     const bool to_outside = from_inside;
     if (to_outside && so.outside_absorbs) {
-      end_in(ctx, t, EndState::absorbed_rear_medium);  // only the rear medium can absorb (a metal)
+      end_in(ctx, ph, t, EndState::absorbed_rear_medium);  // only the rear medium can absorb (a metal)
       return Outcome::ended;
     }
     if (diffuse) {
@@ -311,7 +314,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   // absorbed in one of the films
   const int layer = table.pick_absorbing_layer(cos_i, ws, wp, rng.uniform());
-  end_in(ctx, t, front ? EndState::absorbed_front_film : EndState::absorbed_rear_film, layer);
+  end_in(ctx, ph, t, front ? EndState::absorbed_front_film : EndState::absorbed_rear_film, layer);
   return Outcome::ended;
 }
 
@@ -365,8 +368,10 @@ void launch(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& r
   ph.optical_depth_left = -std::log(rng.uniform());
 }
 
-void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& rng, WavelengthTally& t) {
+void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& rng, std::uint32_t group,
+               WavelengthTally& t) {
   Photon ph;
+  ph.group = group;
   launch(ctx, collimated, rng, ph);
   const WaferModel& M = *ctx.model;
   const double alpha = ctx.optics->alpha_per_um;
@@ -406,7 +411,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
     }
 
     if (ph.interactions >= ctx.max_bounces) {
-      end_in(ctx, t, EndState::unresolved);
+      end_in(ctx, ph, t, EndState::unresolved);
       return;
     }
     const bool front = ph.zone == Zone::front;
@@ -435,10 +440,10 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
       case ZoneExit::top:
         if (front && ph.medium == Medium::outside_front) {
           if (ph.entered) {
-            end_in(ctx, t, EndState::escaped_front);
+            end_in(ctx, ph, t, EndState::escaped_front);
             ++t.escape_angle[angle_bin(L, ph.d.z(), ph.d.x(), ph.d.y())];
           } else {
-            end_in(ctx, t, EndState::reflected_front);
+            end_in(ctx, ph, t, EndState::reflected_front);
             ++t.front_hits[std::min(ph.interactions, L.hit_bins - 1)];
           }
           return;
@@ -447,7 +452,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
           ph.zone = Zone::bulk_up;
           break;
         }
-        end_in(ctx, t, EndState::lost);
+        end_in(ctx, ph, t, EndState::lost);
         return;
       case ZoneExit::bottom:
         if (front && ph.medium == Medium::silicon) {
@@ -455,13 +460,13 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
           break;
         }
         if (!front && ph.medium == Medium::outside_rear) {
-          end_in(ctx, t, EndState::transmitted_rear);
+          end_in(ctx, ph, t, EndState::transmitted_rear);
           return;
         }
-        end_in(ctx, t, EndState::lost);
+        end_in(ctx, ph, t, EndState::lost);
         return;
       case ZoneExit::lost:
-        end_in(ctx, t, EndState::lost);
+        end_in(ctx, ph, t, EndState::lost);
         return;
     }
   }
@@ -493,8 +498,10 @@ void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t e
   const LaunchFrame collimated = collimated_frame(*ctx.illumination);
   for (std::uint64_t i = begin; i < end; ++i) {
     PhotonRng rng(ctx.seed, ctx.variant, ctx.wavelength_index, i);
+    const auto group = std::uint32_t(i % std::uint64_t(ctx.layout->photon_groups));
     ++tally.photons;
-    trace_one(ctx, collimated, rng, tally);
+    ++tally.photons_by_group[group];
+    trace_one(ctx, collimated, rng, group, tally);
   }
 }
 

@@ -117,9 +117,33 @@ grep -q "sbatch --parsable --array=0-5 $WORK/A/submit.sbatch" status0.txt || { c
 "$BIN" sweep local A -j 2 > local_a.txt 2>&1 || { cat local_a.txt; fail "local A failed"; }
 "$BIN" sweep merge A > merge_a.txt 2>&1 || { cat merge_a.txt; fail "merge A failed"; }
 [ "$(wc -l < A/merged.csv)" -eq $((NV + 1)) ] || fail "merged.csv has $(wc -l < A/merged.csv) lines, expected $((NV + 1))"
-head -1 A/merged.csv | grep -q '^id,wafer.thickness \[um\],front.films\[0\].thickness \[nm\],J_G \[mA/cm2\],J_G_sigma \[mA/cm2\],reflected_front \[mA/cm2\],' ||
+head -1 A/merged.csv | grep -q '^id,wafer.thickness \[um\],front.films\[0\].thickness \[nm\],J_G \[mA/cm2\],J_G_sigma \[mA/cm2\],J_G_minus_reference \[mA/cm2\],J_G_minus_reference_sigma \[mA/cm2\],reflected_front \[mA/cm2\],' ||
   fail "merged.csv header: $(head -1 A/merged.csv)"
 head -1 A/merged.csv | grep -q ',J_max \[mA/cm2\],photons$' || fail "merged.csv header lacks J_max/photons"
+# J_G minus the reference (v0000 by default, or --reference): the reference's own row is 0 ± 0,
+# the others carry the difference of the J_G columns and an error from the paired groups
+python3 - A/merged.csv v0000 <<'PY' || fail "J_G_minus_reference columns (default reference)"
+import csv, sys
+rows = list(csv.DictReader(open(sys.argv[1])))
+ref = next(r for r in rows if r["id"] == sys.argv[2])
+for r in rows:
+    d = float(r["J_G_minus_reference [mA/cm2]"]); e = r["J_G_minus_reference_sigma [mA/cm2]"]
+    assert abs(d - (float(r["J_G [mA/cm2]"]) - float(ref["J_G [mA/cm2]"]))) < 1e-12, r["id"]
+    assert (r is ref and float(e) == 0.0) or (r is not ref and float(e) > 0.0), (r["id"], e)
+PY
+"$BIN" sweep merge A --reference v0003 > merge_ref.txt 2>&1 || { cat merge_ref.txt; fail "merge --reference v0003 failed"; }
+python3 - A/merged.csv v0003 <<'PY' || fail "J_G_minus_reference columns (--reference v0003)"
+import csv, sys
+rows = list(csv.DictReader(open(sys.argv[1])))
+ref = next(r for r in rows if r["id"] == sys.argv[2])
+assert float(ref["J_G_minus_reference [mA/cm2]"]) == 0.0
+PY
+cp A/merged.csv merged_before_bad_reference.csv
+"$BIN" sweep merge A --reference v9999 > merge_bad.txt 2>&1 && fail "merge --reference v9999 was accepted"
+grep -q "reference variant 'v9999'" merge_bad.txt || { cat merge_bad.txt; fail "unclear message for an unknown reference"; }
+cmp -s A/merged.csv merged_before_bad_reference.csv || fail "a refused merge changed merged.csv"
+"$BIN" sweep merge A > merge_a.txt 2>&1 || { cat merge_a.txt; fail "merge A (again) failed"; }
+ok "merged.csv: J_G_minus_reference and its error against v0000 and --reference v0003; unknown reference refused"
 grep -q '"complete": true' A/merged.json || fail "merged.json does not say complete"
 for f in spectral.csv summary.json scene.toml generation.csv tallies.json; do
   [ -f "A/variants/v0003/result/$f" ] || fail "result folder lacks $f"
