@@ -74,6 +74,34 @@ TEST(Illumination, AzimuthDoesNotMatterOnAPlanarWafer) {
     }
 }
 
+// The largest polar angle allowed (kMaxPolarAngleDeg, 89 deg): a planar
+// wafer still matches the exact planar solver, and a random-pyramid front
+// loses no photon (above the limit the scene is refused; see
+// tests/io/test_scene_reader.cpp).
+TEST(Illumination, AtTheGrazingLimitNothingIsLost) {
+  const std::string at_limit = std::string(kBody) + fmt::format("polar_angle = \"{:g} deg\"\n", kMaxPolarAngleDeg);
+  const Scene planar = test::scene_from_text(at_limit, "grazing_planar");
+  const Results exact = planar_results(planar);
+  auto run = prepare_run(planar);
+  const std::uint64_t N = 20000;
+  const Results traced = results_from_tallies(*run, test::trace_all(*run, N));
+  for (const auto& b : exact.bins)
+    for (std::size_t i = 0; i < b.fraction.size(); ++i) {
+      const double p = std::clamp(b.fraction[i], 0.0, 1.0);  // exact values may be -1e-17
+      EXPECT_NEAR(traced.bin(b.bin.name).fraction[i], p, 4 * std::sqrt(p * (1 - p) / N) + 1e-4) << b.bin.name;
+    }
+
+  const Scene textured = test::scene_from_text(
+      "[front]\ntexture = \"random_pyramids\"\n[front.random_pyramids]\ntile = \"20 um\"\n" + at_limit,
+      "grazing_pyramids");
+  auto run2 = prepare_run(textured);
+  const auto tallies = test::trace_all(*run2, 5000);
+  for (const auto& t : tallies) {
+    EXPECT_EQ(ended_in(run2->layout, t, EndState::lost), 0u);
+    EXPECT_EQ(ended_in(run2->layout, t, EndState::unresolved), 0u);
+  }
+}
+
 TEST(Illumination, UserSpectrumFileGivesTheSameCurrentsAsTheSameBuiltinData) {
   // A user spectrum file holding the AM1.5G column of ASTM G173-03 (copied
   // from materials/astm_g173_03.csv) must reproduce the built-in AM1.5G.
