@@ -6,25 +6,42 @@
 #include <cmath>
 
 #include "io/scene_reader.hpp"
-#include "io/units.hpp"
 
 namespace lumtrap {
 
 namespace {
 
-// Calibration (measured builds: lumtrap run with one wavelength and one
-// photon, peak resident memory and setup time as written to summary.json;
-// random pyramids 1-5 µm, tiles 100 µm to 1 mm; see the table below).
+// Calibration: `lumtrap run` of a planar-rear wafer with random pyramids
+// 1-5 um (uniform) on the front, one wavelength, one photon, 2 threads, on
+// the 2-core development machine (23.5 GiB, shared with other builds);
+// peak resident memory (GNU time) and setup time (summary.json):
 //
-// Memory per triangle of a tile: the mesh (double vertices, index triples),
-// the Embree scene (float vertices, the BVH of a high-quality build), the
-// normals and facet classes, and the build's working memory at its peak.
-constexpr double kBytesPerTriangle = 170.0;
+//   tile     triangles built / estimated   peak memory   setup time
+//   200 um     359 604 /    358 797          66.6 MiB       1.7 s
+//   400 um   1 504 712 /  1 530 086           242 MiB       5.7 s
+//   700 um   5 156 500 /  5 125 000           809 MiB      28.9 s
+//   1 mm    10 295 167 / 10 300 000          1590 MiB      61.2 s
+//
+// A straight line through them: 12 MB + 161 bytes per triangle (within
+// 1 % at every tile). The mesh (double vertices, index triples), the
+// Embree scene (float vertices, the BVH of a high-quality build), the
+// normals and facet classes and the build's working memory are all
+// proportional to the triangles; 165 bytes leaves a little room.
+constexpr double kBytesPerTriangle = 165.0;
 // Whatever a run holds besides the tiles (libraries, materials, tallies).
-constexpr double kBaseBytes = 40e6;
-// Build time per triangle on one core of the machine it was measured on
-// (mesh generation dominates; the Embree build runs on all threads).
-constexpr double kSecondsPerTriangle = 3.0e-6;
+constexpr double kBaseBytes = 15e6;
+// Setup time per triangle: 3.8-5.9 us measured above on a loaded machine
+// (mesh generation dominates; it grows a little faster than the triangles).
+// Machine-dependent: the estimate only sets the expectations of the
+// progress line and the message of a refused tile.
+constexpr double kSecondsPerTriangle = 5e-6;
+
+// A length for messages, with 3 significant digits: "10 mm", "186 um", "1 nm".
+std::string readable_length(double um) {
+  if (um >= 1000) return fmt::format("{:.3g} mm", um / 1000);
+  if (um >= 0.1) return fmt::format("{:.3g} um", um);
+  return fmt::format("{:.3g} nm", um * 1000);
+}
 
 SurfaceBuildCost surface_cost(const Texture& texture) {
   const geometry::TextureDescriptor& d = geometry::texture_of(texture);
@@ -33,6 +50,29 @@ SurfaceBuildCost surface_cost(const Texture& texture) {
   c.bytes = kBytesPerTriangle * c.triangles;
   c.seconds = kSecondsPerTriangle * c.triangles;
   return c;
+}
+
+// The largest value of the length key `key` of the front (or rear) texture
+// whose estimate fits `max_bytes` (bisection in log scale below `value`,
+// which does not fit); 0 when none does or the estimate refuses the values.
+double largest_that_fits(const Scene& scene, bool front, std::string_view key, double value, double max_bytes) {
+  Scene probe = scene;
+  Texture& t = front ? probe.front.texture : probe.rear.texture;
+  const auto fits = [&](double v) {
+    t.numbers[std::string(key)] = v;
+    return estimate_build(probe).bytes <= max_bytes;
+  };
+  try {
+    double lo = value * 1e-6, hi = value;
+    if (!fits(lo)) return 0.0;
+    for (int i = 0; i < 50; ++i) {
+      const double mid = std::sqrt(lo * hi);
+      (fits(mid) ? lo : hi) = mid;
+    }
+    return lo;
+  } catch (const std::exception&) {
+    return 0.0;
+  }
 }
 
 }  // namespace
@@ -84,11 +124,9 @@ void check_build_cost(const Scene& scene, const BuildCost& cost, double max_byte
     if (spec && surface.texture.numbers.count(std::string(d.size_key))) {
       const double v = surface.texture.number(d.size_key);
       if (spec->kind == geometry::ParamKind::length_um) {
-        value = format_length_um(v);
-        // Triangles grow as the square of the tile side.
-        const double room = std::max(0.0, max_bytes - (cost.bytes - sc.bytes));
-        const double fits = v * std::sqrt(room / sc.bytes) * 0.9;
-        advice = fmt::format("{} ({} = {} would fit)", advice, d.size_key, format_length_um(fits));
+        value = readable_length(v);
+        if (const double fits = largest_that_fits(scene, front_larger, d.size_key, v, max_bytes); fits > 0)
+          advice += fmt::format("; {} = {} would fit", d.size_key, readable_length(fits));
       } else {
         value = fmt::format("{:g}", v);
       }
@@ -96,7 +134,7 @@ void check_build_cost(const Scene& scene, const BuildCost& cost, double max_byte
   }
   throw SceneError(fmt::format(
       "{}: key '{}': value \"{}\": the {} texture would need about {:.3g} triangles, about {} of memory and about "
-      "{} to build (the whole run about {}), above the limit of {} ({}); allowed: a tile that fits the limit: {}, "
+      "{} to build (the whole run about {}), above the limit of {} ({}); allowed: a texture that fits the limit: {}; "
       "or a higher --max-memory on a machine that has the memory",
       scene.where(key), key, value, side, sc.triangles, format_bytes(sc.bytes), format_seconds(sc.seconds),
       format_bytes(cost.bytes), format_bytes(max_bytes), limit_origin, advice));

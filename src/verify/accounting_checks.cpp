@@ -45,7 +45,7 @@ seed = 11
 }  // namespace
 
 void accounting_checks(const std::function<void(CheckOutcome)>& add) {
-  const std::uint64_t N = 6000;
+  const std::uint64_t N = 20000;
   const Scene scene = scene_of_text("textured", kTexturedScene);
   const auto run = prepare_run(scene);
 

@@ -42,9 +42,13 @@ void closed_form_checks(const std::function<void(CheckOutcome)>& add) {
     const double tau = std::exp(-absorption_coefficient_per_nm(n, lambda) * W);
     const SlabPowers s = incoherent_slab(R1, R1, tau);
     const std::string ref = "incoherent multiple reflections in a slab, common practice";
-    add(exact("incoherent slab, planar solver: reflectance", ref, s.R, r.R, 1e-9));
-    add(exact("incoherent slab, planar solver: transmittance", ref, s.T, r.T, 1e-9));
-    add(exact("incoherent slab, planar solver: absorptance", ref, s.A, r.absorbed_silicon, 1e-9));
+    // The closed form lets 1 - R through each interface; with k = 0.0008 the
+    // power flux across an interface into or out of an absorbing medium
+    // differs from that by terms of order (k/n)² = 3.5e-8 (from memory;
+    // measured here: 2.1e-8 at most), hence the relative tolerance 1e-7.
+    add(exact("incoherent slab, planar solver: reflectance", ref, s.R, r.R, 1e-7));
+    add(exact("incoherent slab, planar solver: transmittance", ref, s.T, r.T, 1e-7));
+    add(exact("incoherent slab, planar solver: absorptance", ref, s.A, r.absorbed_silicon, 1e-7));
   }
 }
 

@@ -35,7 +35,7 @@ wavelengths = ["1000 nm"]
 }  // namespace
 
 void traced_checks(const std::function<void(CheckOutcome)>& add) {
-  const std::uint64_t N = 100000;
+  const std::uint64_t N = 1000000;
   // Lossless slab n = 4.3: first-surface reflectance and the incoherent sum.
   {
     const TracedScene t = trace_scene("lossless_slab", slab_scene("{ n = 4.3, k = 0 }", "180 um"), N);
@@ -93,7 +93,7 @@ scattering = "lambertian"
 wavelengths = ["{} nm"]
 )",
                                          n, k, W_um, lambda_nm);
-    const std::uint64_t photons = 40000;
+    const std::uint64_t photons = 400000;
     const TracedScene t = trace_scene("lambertian", text, photons);
     add(statistical(fmt::format("ideal Lambertian wafer, alpha W = {:g} (traced): absorptance", aW),
                     "Green, Prog. Photovolt. 10, 235, 2002", lambertian_absorptance(aW, n),

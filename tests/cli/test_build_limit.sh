@@ -65,7 +65,7 @@ texture = "random_pyramids"
 tile = "30 um"
 [illumination]
 wavelengths = ["1000 nm"]
-[sweep]
+[sweep.grid]
 "front.random_pyramids.tile" = ["30 um", "10 mm"]
 EOT
 set +e
