@@ -5,6 +5,7 @@
 
 #include <cctype>
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <stdexcept>
 
@@ -19,19 +20,57 @@ void add_max_memory_option(CLI::App& cmd, std::string& value) {
                              100 * kDefaultMemoryFraction));
 }
 
+namespace {
+
+// A number read from a cgroup file ("max" and unreadable files: none).
+double cgroup_number(const std::filesystem::path& file) {
+  std::ifstream in(file);
+  std::string text;
+  if (!(in >> text) || text.empty() || !std::isdigit(static_cast<unsigned char>(text[0]))) return 0.0;
+  return std::strtod(text.c_str(), nullptr);
+}
+
+// The smallest memory limit of this process's control group and its
+// parents: cgroup v2 (memory.max; "0::PATH" in /proc/self/cgroup) and v1
+// (memory.limit_in_bytes; "N:memory:PATH"), wherever the hierarchy is
+// mounted under /sys/fs/cgroup. 0 when there is none.
+double cgroup_memory_limit() {
+  std::ifstream in("/proc/self/cgroup");
+  std::string line;
+  double limit = 0;
+  const auto consider = [&](const std::filesystem::path& root, std::string path, const char* file) {
+    for (;;) {
+      const double v = cgroup_number(root / std::filesystem::path(path).relative_path() / file);
+      if (v > 0 && (limit == 0 || v < limit)) limit = v;
+      if (path.empty() || path == "/") break;
+      path = std::filesystem::path(path).parent_path().string();
+    }
+  };
+  while (std::getline(in, line)) {
+    const auto a = line.find(':'), b = line.find(':', a + 1);
+    if (a == std::string::npos || b == std::string::npos) continue;
+    const std::string controllers = line.substr(a + 1, b - a - 1), path = line.substr(b + 1);
+    if (line.compare(0, a, "0") == 0 && controllers.empty()) {
+      consider("/sys/fs/cgroup", path, "memory.max");
+      consider("/sys/fs/cgroup/unified", path, "memory.max");
+    } else if (controllers == "memory") {
+      consider("/sys/fs/cgroup/memory", path, "memory.limit_in_bytes");
+    }
+  }
+  return limit;
+}
+
+}  // namespace
+
 double available_memory_bytes(std::string* what) {
   const long pages = ::sysconf(_SC_PHYS_PAGES), page = ::sysconf(_SC_PAGE_SIZE);
   double bytes = pages > 0 && page > 0 ? double(pages) * double(page) : 0.0;
   if (what) *what = "physical memory";
-  // A control group's limit (cgroup v2), e.g. the memory of a SLURM job.
-  std::ifstream in("/sys/fs/cgroup/memory.max");
-  std::string text;
-  if (in >> text && !text.empty() && std::isdigit(static_cast<unsigned char>(text[0]))) {
-    const double limit = std::strtod(text.c_str(), nullptr);
-    if (limit > 0 && (bytes <= 0 || limit < bytes)) {
-      bytes = limit;
-      if (what) *what = "memory limit of this process's control group";
-    }
+  // A control group's limit, e.g. the memory of a SLURM job.
+  const double limit = cgroup_memory_limit();
+  if (limit > 0 && (bytes <= 0 || limit < bytes)) {
+    bytes = limit;
+    if (what) *what = "memory limit of this process's control group";
   }
   if (bytes <= 0) bytes = 4.0 * 1024 * 1024 * 1024;  // unknown: a small machine
   return bytes;
