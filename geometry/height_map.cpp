@@ -337,6 +337,8 @@ const TextureDescriptor kHeightMapTexture{
     .smallest_feature_um = height_map_feature,
     .build = [](const TextureParams& p) { return height_map_tile(p, nullptr); },
     .estimate_triangles = estimate_height_map,
+    .size_key = "bin",
+    .size_advice = "a larger bin (bin = 2 makes four times fewer triangles) or a smaller crop of the map",
 };
 
 }  // namespace lumtrap::geometry

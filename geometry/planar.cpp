@@ -36,6 +36,7 @@ const TextureDescriptor kPlanarTexture{
     .check = nullptr,
     .smallest_feature_um = [](const TextureParams&) { return 0.0; },
     .build = [](const TextureParams&) { return planar_tile(10.0); },
+    .estimate_triangles = [](const TextureParams&) { return 2.0; },
 };
 
 }  // namespace lumtrap::geometry

@@ -6,6 +6,7 @@
 #include <algorithm>
 
 #include "geometry/pyramid_envelope.hpp"
+#include "geometry/random_pyramid_count.hpp"
 #include "geometry/random_pyramid_layout.hpp"
 #include "geometry/texture_descriptor.hpp"
 #include "geometry/textures.hpp"
@@ -153,6 +154,10 @@ const TextureDescriptor kRandomPyramidsTexture{
     .check = check_random,
     .smallest_feature_um = random_feature,
     .build = [](const TextureParams& p) { return random_pyramids_tile(random_pyramids_spec(p)); },
+    .estimate_triangles =
+        [](const TextureParams& p) { return estimate_random_pyramids(random_pyramids_spec(p)).triangles; },
+    .size_key = "tile",
+    .size_advice = "a smaller tile, or larger pyramids (the triangles grow as (tile / mean size)²)",
 };
 
 }  // namespace lumtrap::geometry

@@ -87,6 +87,9 @@ std::vector<ParamSpec> regular_params() {
 
 double regular_feature(const TextureParams& p) { return p.number("base"); }
 
+// Four facets, and eight border triangles when there is a gap (as built above).
+double regular_triangles(const TextureParams& p) { return p.number("gap") > 0 ? 12.0 : 4.0; }
+
 }  // namespace
 
 extern const TextureDescriptor kUprightPyramidsTexture;
@@ -102,6 +105,7 @@ const TextureDescriptor kUprightPyramidsTexture{
         [](const TextureParams& p) {
           return regular_pyramids_tile(p.number("base"), p.number("facet_angle"), p.number("gap"), false);
         },
+    .estimate_triangles = regular_triangles,
 };
 
 extern const TextureDescriptor kInvertedPyramidsTexture;
@@ -117,6 +121,7 @@ const TextureDescriptor kInvertedPyramidsTexture{
         [](const TextureParams& p) {
           return regular_pyramids_tile(p.number("base"), p.number("facet_angle"), p.number("gap"), true);
         },
+    .estimate_triangles = regular_triangles,
 };
 
 }  // namespace lumtrap::geometry

@@ -87,9 +87,15 @@ struct TextureDescriptor {
   /// The mesh of one periodic tile (mesh.hpp conventions).
   TileMesh (*build)(const TextureParams&) = nullptr;
   /// About how many triangles `build` makes, from the parameters alone
-  /// (without building), to bound memory and time before any work (null:
-  /// not estimated yet).
+  /// (without building, in well under a second), to bound memory and time
+  /// before any work (src/trace/build_estimate.hpp).
   double (*estimate_triangles)(const TextureParams&) = nullptr;
+  /// The key that sets the size of the tile mesh, named when a tile is
+  /// refused as too large (empty: none); when it is a length, the
+  /// triangles grow as its square.
+  std::string_view size_key{};
+  /// What to change when a tile is refused as too large.
+  std::string_view size_advice{};
 };
 
 /// Every texture, in the order of the registry.

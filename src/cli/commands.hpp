@@ -16,6 +16,7 @@ void add_plot_command(CLI::App& app);      // lumtrap plot FOLDER...
 void add_report_command(CLI::App& app);    // lumtrap report FOLDER...
 void add_exr_channels_command(CLI::App& app);  // lumtrap exr-channels FILE (hidden helper of plot)
 void add_texture_command(CLI::App& app);   // lumtrap texture SCENE
+void add_verify_command(CLI::App& app);    // lumtrap verify
 
 /// Thrown by commands to end with a given exit code after a message.
 struct ExitCode {

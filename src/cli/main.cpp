@@ -21,6 +21,7 @@ int main(int argc, char** argv) {
   lumtrap::cli::add_report_command(app);
   lumtrap::cli::add_exr_channels_command(app);
   lumtrap::cli::add_texture_command(app);
+  lumtrap::cli::add_verify_command(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

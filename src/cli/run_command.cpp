@@ -4,7 +4,9 @@
 #include <chrono>
 #include <iostream>
 
+#include "cli/build_progress.hpp"
 #include "cli/commands.hpp"
+#include "cli/memory_limit.hpp"
 #include "cli/output.hpp"
 #include "cli/stop_signal.hpp"
 #include "cli/thread_limit.hpp"
@@ -14,6 +16,7 @@
 #include "io/scene_reader.hpp"
 #include "io/scene_warnings.hpp"
 #include "io/scene_writer.hpp"
+#include "trace/build_estimate.hpp"
 #include "trace/driver.hpp"
 
 namespace lumtrap::cli {
@@ -23,6 +26,7 @@ namespace {
 struct RunOptions : OutputOptions {
   int threads = -1;
   long long photons = -1;
+  std::string max_memory;
 };
 
 double seconds_between(std::chrono::steady_clock::time_point a, std::chrono::steady_clock::time_point b) {
@@ -40,10 +44,15 @@ void add_run_command(CLI::App& app) {
       ->check(CLI::NonNegativeNumber);
   cmd->add_option("--photons", o->photons, "photons per wavelength (overrides run.photons)")
       ->check(CLI::PositiveNumber);
+  add_max_memory_option(*cmd, o->max_memory);
   cmd->callback([o] {
     Scene scene = parse_scene_file(o->scene);
     if (o->photons > 0) scene.run.photons = std::uint64_t(o->photons);
     if (o->threads >= 0) scene.run.threads = o->threads;
+    // Refuse textures too large for the machine before any work.
+    const MemoryLimit memory = memory_limit(o->max_memory);
+    const BuildCost cost = estimate_build(scene);
+    check_build_cost(scene, cost, memory.bytes, memory.origin);
     const auto out = result_folder(*o, scene, "run");
     refuse_existing(out, o->overwrite);
     const std::string resolved = resolved_scene_toml(scene);
@@ -53,7 +62,11 @@ void add_run_command(CLI::App& app) {
 
     const ThreadLimit limit(scene.run.threads, o->threads >= 0 ? "--threads" : "run.threads");
     const auto t0 = std::chrono::steady_clock::now();
-    auto run = prepare_run(scene);
+    std::unique_ptr<PreparedRun> run;
+    {
+      const BuildProgress building("lumtrap run: building the textures", cost.seconds);
+      run = prepare_run(scene);
+    }
     const auto t1 = std::chrono::steady_clock::now();
 
     DriveOptions d;

@@ -4,7 +4,9 @@
 
 #include <iostream>
 
+#include "cli/build_progress.hpp"
 #include "cli/commands.hpp"
+#include "cli/memory_limit.hpp"
 #include "cli/output.hpp"
 #include "io/end_states.hpp"
 #include "io/result_writer.hpp"
@@ -14,6 +16,7 @@
 #include "io/scene_writer.hpp"
 #include "optics/material.hpp"
 #include "sweep/expand.hpp"
+#include "trace/build_estimate.hpp"
 #include "trace/planar_run.hpp"
 #include "trace/wafer_model.hpp"
 
@@ -41,19 +44,37 @@ void add_check_command(CLI::App& app) {
   auto* cmd = app.add_subcommand(
       "check", "validate a scene file (print it with every default filled in) or a sweep file (every variant)");
   auto scene_file = std::make_shared<std::string>();
+  auto max_memory = std::make_shared<std::string>();
   cmd->add_option("scene", *scene_file, "scene file or sweep file (TOML)")->required()->check(CLI::ExistingFile);
-  cmd->callback([scene_file] {
+  add_max_memory_option(*cmd, *max_memory);
+  cmd->callback([scene_file, max_memory] {
+    const MemoryLimit memory = memory_limit(*max_memory);
     const toml::table table = read_scene_table(*scene_file);
     if (table.contains("sweep")) {
       TileHeightCache cache;
-      const Sweep sweep =
-          expand_sweep(table, *scene_file, [&cache](const Scene& s) { check_wafer_geometry(s, &cache); });
+      BuildCost largest;
+      const Sweep sweep = expand_sweep(table, *scene_file, [&](const Scene& s) {
+        const BuildCost cost = estimate_build(s);
+        check_build_cost(s, cost, memory.bytes, memory.origin);
+        if (cost.bytes > largest.bytes) largest = cost;
+        const BuildProgress building("lumtrap check: building the textures", cost.seconds);
+        check_wafer_geometry(s, &cache);
+      });
+      std::cerr << fmt::format("lumtrap check: largest variant: {} (limit {}: {})\n", describe_build_cost(largest),
+                               format_bytes(memory.bytes), memory.origin);
       std::cout << fmt::format("{}: {} sweep variants, all valid (swept keys: {})\n", *scene_file,
                                sweep.variants.size(), fmt::join(sweep.keys, ", "));
       return;
     }
     const Scene scene = scene_from_table(table, *scene_file);
-    check_wafer_geometry(scene);
+    const BuildCost cost = estimate_build(scene);
+    std::cerr << fmt::format("lumtrap check: build estimate: {} (limit {}: {})\n", describe_build_cost(cost),
+                             format_bytes(memory.bytes), memory.origin);
+    check_build_cost(scene, cost, memory.bytes, memory.origin);
+    {
+      const BuildProgress building("lumtrap check: building the textures", cost.seconds);
+      check_wafer_geometry(scene);
+    }
     for (const auto& w : scene_warnings(scene)) std::cerr << "lumtrap: warning: " << w << "\n";
     const auto planar = planar_solver_problem(scene);
     std::cerr << fmt::format("lumtrap check: {} is valid; planar solver: {}\n", *scene_file,

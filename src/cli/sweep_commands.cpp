@@ -9,7 +9,9 @@
 #include <cstdlib>
 #include <iostream>
 
+#include "cli/build_progress.hpp"
 #include "cli/commands.hpp"
+#include "cli/memory_limit.hpp"
 #include "cli/output.hpp"
 #include "cli/stop_signal.hpp"
 #include "cli/thread_limit.hpp"
@@ -25,6 +27,7 @@
 #include "sweep/slurm_query.hpp"
 #include "sweep/slurm_scripts.hpp"
 #include "sweep/status.hpp"
+#include "trace/build_estimate.hpp"
 #include "trace/wafer_model.hpp"
 
 namespace lumtrap::cli {
@@ -39,6 +42,7 @@ struct PlanOptions {
   SlurmRequests requests;
   std::uint32_t split = 1;
   bool lean = false;
+  std::string max_memory;
 };
 
 struct RunOptions {
@@ -155,16 +159,28 @@ void add_plan(CLI::App& sweep) {
                   "split every variant into K photon ranges, each its own work unit (default 1)")
       ->check(CLI::PositiveNumber);
   cmd->add_flag("--lean", o->lean, "result folders without the angle maps (escape/rear angle CSV and EXR)");
+  add_max_memory_option(*cmd, o->max_memory);
   cmd->callback([o] {
     // Everything that can be wrong is found before anything is written.
     check_slurm_requests(o->requests);
+    // Every variant must build within this machine's limit and within the
+    // memory each array task asks for (--mem).
+    MemoryLimit memory = memory_limit(o->max_memory);
+    const double task_bytes = slurm_megabytes(o->requests.mem) * 1024.0 * 1024.0;
+    if (task_bytes < memory.bytes)
+      memory = {task_bytes, fmt::format("--mem {} of each array task; give a larger --mem", o->requests.mem)};
     const JobProgram program{self_binary(), fs::absolute(materials_dir()).lexically_normal()};
     const fs::path dir = fs::absolute(o->out).lexically_normal();
     require_plain_path(dir, "--out");
     const std::string sweep_text = read_text_file(o->sweep);
     TileHeightCache cache;
     const Sweep sweep =  // validates every variant
-        read_sweep_file(o->sweep, [&cache](const Scene& s) { check_wafer_geometry(s, &cache); });
+        read_sweep_file(o->sweep, [&](const Scene& s) {
+          const BuildCost cost = estimate_build(s);
+          check_build_cost(s, cost, memory.bytes, memory.origin);
+          const BuildProgress building("lumtrap sweep plan: building the textures", cost.seconds);
+          check_wafer_geometry(s, &cache);
+        });
     const ClusterLimits limits = query_cluster_limits();
     const ArrayFit fit = fit_array(sweep.variants.size() * o->split, o->per_task, limits.max_array_size);
     check_requests(o->requests, limits.partitions);

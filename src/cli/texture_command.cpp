@@ -8,7 +8,9 @@
 
 #include <iostream>
 
+#include "cli/build_progress.hpp"
 #include "cli/commands.hpp"
+#include "cli/memory_limit.hpp"
 #include "cli/output.hpp"
 #include "geometry/height_map.hpp"
 #include "geometry/relief_image.hpp"
@@ -20,6 +22,7 @@
 #include "io/scene_writer.hpp"
 #include "io/texture_report.hpp"
 #include "io/units.hpp"
+#include "trace/build_estimate.hpp"
 
 namespace lumtrap::cli {
 
@@ -31,6 +34,7 @@ struct TextureOptions : OutputOptions {
   std::string min_prominence = "0 um";
   int image_pixels = 1000;
   int image_tiles = 1;
+  std::string max_memory;
 };
 
 /// A quantity option read with its unit; the message names the option.
@@ -68,6 +72,7 @@ void add_texture_command(CLI::App& app) {
       ->check(CLI::Range(1, 20000));
   cmd->add_option("--image-tiles", o->image_tiles, "tiles per side shown in the relief pictures (default 1)")
       ->check(CLI::Range(1, 16));
+  add_max_memory_option(*cmd, o->max_memory);
   cmd->callback([o] {
     geometry::StatisticsOptions so;
     so.flat_below_deg = option_quantity("--flat-below", o->flat_below, parse_angle_deg, 0, 90,
@@ -81,6 +86,10 @@ void add_texture_command(CLI::App& app) {
     const Scene scene = parse_scene_file(o->scene);
     const auto out = result_folder(*o, scene, "texture");
     refuse_existing(out, o->overwrite);
+    const MemoryLimit memory = memory_limit(o->max_memory);
+    const BuildCost cost = estimate_build(scene);
+    check_build_cost(scene, cost, memory.bytes, memory.origin);
+    const BuildProgress building("lumtrap texture: building the textures", cost.seconds);
 
     std::vector<OutputFile> files;
     files.push_back({"scene.toml", resolved_scene_toml(scene)});

@@ -67,11 +67,19 @@ enum class SpectrumKind { am15g, am15d, am0, file };
 enum class PolarizationKind { unpolarized, s, p };
 enum class IlluminationKind { collimated, diffuse };
 
+/// The largest polar angle of collimated light, degrees. Closer to grazing,
+/// light skims over the texture for tan(polar angle) times its height
+/// (over 5 700 times at 89.99°) before it meets a facet: tracing slows by
+/// orders of magnitude and photons run out of tile crossings (end state
+/// "lost"), while the light falling on the wafer per unit area goes to zero
+/// as cos(polar angle) (1.7 % of normal incidence at 89°).
+inline constexpr double kMaxPolarAngleDeg = 89.0;
+
 struct Illumination {
   SpectrumKind spectrum = SpectrumKind::am15g;
   std::filesystem::path spectrum_file;   ///< when SpectrumKind::file
   IlluminationKind kind = IlluminationKind::collimated;
-  double polar_rad = 0.0;                ///< angle from the wafer normal, [0, 90°)
+  double polar_rad = 0.0;                ///< angle from the wafer normal, [0, kMaxPolarAngleDeg]
   double azimuth_rad = 0.0;              ///< from the texture's x axis
   PolarizationKind polarization = PolarizationKind::unpolarized;
   std::vector<double> wavelengths_nm;    ///< strictly increasing

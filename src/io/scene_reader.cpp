@@ -659,10 +659,14 @@ void SceneReader::read_illumination(const toml::table* t, Illumination& ill,
   }
   if (const toml::node* n = tb.get("polar_angle")) {
     ill.polar_rad = angle_rad(*n, "illumination.polar_angle");
-    const double deg = angle_deg(*n, "illumination.polar_angle");  // "90 deg" is out whatever the rounding
-    if (!(ill.polar_rad >= 0 && ill.polar_rad < std::numbers::pi / 2 && deg < 90))
+    const double deg = angle_deg(*n, "illumination.polar_angle");  // compared in degrees whatever the unit
+    if (!(ill.polar_rad >= 0 && deg >= 0 && deg <= kMaxPolarAngleDeg))
       fail_value(*n, "illumination.polar_angle",
-                 "out of range; allowed: 0 deg <= polar angle < 90 deg (from the wafer normal)");
+                 fmt::format("out of range; allowed: 0 deg <= polar angle <= {:g} deg (from the wafer normal). "
+                             "Nearer to grazing, light skims over the texture for tan(polar angle) times its "
+                             "height before it meets a facet, so tracing becomes very slow and photons are lost, "
+                             "while the light reaching the wafer vanishes as cos(polar angle)",
+                             kMaxPolarAngleDeg));
   }
   if (const toml::node* n = tb.get("azimuth")) {
     // Reduced to [0, 2π). Values already inside are kept bit for bit (so a

@@ -293,9 +293,14 @@ TEST(SceneErrors, NegativeThickness) {
 
 TEST(SceneErrors, AngleOutOfRange) {
   expect_error("polar95.toml", "[illumination]\npolar_angle = \"95 deg\"\n", 2, "illumination.polar_angle",
-               "value \"95 deg\"", "allowed: 0 deg <= polar angle < 90 deg");
+               "value \"95 deg\"", "allowed: 0 deg <= polar angle <= 89 deg");
   expect_error("polar90.toml", "[illumination]\npolar_angle = \"90 deg\"\n", 2, "illumination.polar_angle",
                "value \"90 deg\"");
+  // Grazing light is refused above 89 deg, with the reason.
+  expect_error("polar_grazing.toml", "[illumination]\npolar_angle = \"89.99999 deg\"\n", 2,
+               "illumination.polar_angle", "value \"89.99999 deg\"", "skims over the texture");
+  expect_error("polar_rad.toml", "[illumination]\npolar_angle = \"1.56 rad\"\n", 2, "illumination.polar_angle",
+               "value \"1.56 rad\"", "<= 89 deg");
   expect_error("facet95.toml",
                "[front]\ntexture = \"upright_pyramids\"\n[front.pyramids]\nbase = \"5 um\"\nfacet_angle = \"95 deg\"\n", 5,
                "front.pyramids.facet_angle", "value \"95 deg\"", "0 deg < facet_angle < 90 deg");

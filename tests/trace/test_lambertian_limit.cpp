@@ -14,24 +14,14 @@
 #include <cmath>
 #include <iostream>
 
+#include "optics/closed_forms.hpp"
 #include "trace_test_util.hpp"
 
 namespace lumtrap {
 namespace {
 
-// Exponential integrals E1..E3 (Abramowitz & Stegun, Handbook of
-// Mathematical Functions, 1964, 5.1.14: E_{n+1}(x) = (e^-x - x E_n(x)) / n).
-double E3(double x) {
-  const double e1 = -std::expint(-x);
-  const double e2 = std::exp(-x) - x * e1;
-  return 0.5 * (std::exp(-x) - x * e2);
-}
-
-double green_absorptance(double alpha_W, double n) {
-  const double t = 2.0 * E3(alpha_W);
-  const double n2 = n * n;
-  return 1.0 - (t * t / n2) / (1.0 - (1.0 - 1.0 / n2) * t * t);
-}
+// Green's exact absorptance (closed form in optics/closed_forms.hpp).
+double green_absorptance(double alpha_W, double n) { return lambertian_absorptance(alpha_W, n); }
 
 std::string lambertian_scene(const std::string& thickness, const std::string& material,
                              const std::string& wavelengths) {
