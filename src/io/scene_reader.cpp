@@ -449,7 +449,9 @@ double SceneReader::texture_number(const toml::node& n, const std::string& key, 
   const bool lo_ok = p.lo_open ? v > p.lo : v >= p.lo;
   const bool hi_ok = p.hi_open ? v < p.hi : v <= p.hi;
   if (lo_ok && hi_ok) return v;
-  const std::string lo = format_number(p.lo) + unit, hi = format_number(p.hi) + unit;
+  // (an open end of the range is never written: it is infinite)
+  const auto bound = [&](double b) { return std::isfinite(b) ? format_number(b) + unit : std::string(); };
+  const std::string lo = bound(p.lo), hi = bound(p.hi);
   std::string allowed;
   if (std::isinf(p.hi))
     allowed = fmt::format("{} {} {}, e.g. \"{}\"", what, p.lo_open ? ">" : ">=", lo, p.example);
