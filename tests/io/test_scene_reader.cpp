@@ -273,6 +273,10 @@ TEST(SceneErrors, EtchShapeKeys) {
                7, "front.random_pyramids.facet_angle_max", "value \"50 deg\"", "allowed: min < max");
   expect_error("angular_error.toml", rp + "angular_error = \"0.1 deg\"\n", 5, "front.random_pyramids.angular_error",
                "value \"0.1 deg\"", "allowed: 0.5 deg <= angular_error <= 20 deg");
+  expect_error("directional_rounded.toml",
+               "[front]\ntexture = \"upright_pyramids\"\nconformality = \"directional\"\n[front.pyramids]\n"
+               "tip_radius = \"0.1 um\"\n",
+               3, "front.conformality", "value \"directional\"", "allowed: \"conformal\" here");
   expect_error("too_many_triangles.toml", rp + "tip_radius = \"0.001 um\"\nangular_error = \"0.5 deg\"\n", 6,
                "front.random_pyramids.angular_error", "value \"0.5 deg\"", "allowed: at most 2e+07");
 }
