@@ -46,6 +46,14 @@ double rounded_envelope_triangle_estimate(double P, double mean_base, double min
 
 std::optional<ParamProblem> check_mesh_size(double P, double mean_base, double min_base, double steepest_deg,
                                             const EtchShape& shape) {
+  const double h = rounded_envelope_finest_cell({{0, 0, min_base, steepest_deg}}, shape);
+  if (P / h > kMaxFinestCellsPerSide)
+    return ParamProblem{{"angular_error", "tip_radius", "valley_radius"},
+                        fmt::format("the finest mesh cell ({:.3g} um) would split the {} um tile into {:.3g} cells per "
+                                    "side (angular_error {} deg, tip_radius {} um, valley_radius {} um); allowed: at "
+                                    "most {}: raise angular_error or the radii, or make the tile smaller",
+                                    h, P, P / h, shape.angular_error_deg, shape.tip_radius_um, shape.valley_radius_um,
+                                    kMaxFinestCellsPerSide)};
   const double n = rounded_envelope_triangle_estimate(P, mean_base, min_base, steepest_deg, shape);
   if (n <= kMaxShapedTriangles) return std::nullopt;
   return ParamProblem{

@@ -30,7 +30,12 @@ double rounded_envelope_triangle_estimate(double period_um, double mean_base_um,
 /// at the 125 B per triangle measured for height maps).
 inline constexpr double kMaxShapedTriangles = 2e7;
 
-/// A problem naming the shape keys when the estimate is above the limit.
+/// Largest number of finest cells per tile side (the quadtree keeps one byte
+/// per finest cell: 16384² is 268 MB).
+inline constexpr double kMaxFinestCellsPerSide = 16384;
+
+/// A problem naming the shape keys when the estimate is above the limit, or
+/// the finest cell too small for the tile.
 std::optional<ParamProblem> check_mesh_size(double period_um, double mean_base_um, double min_base_um,
                                             double steepest_deg, const EtchShape& shape);
 

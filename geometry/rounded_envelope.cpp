@@ -49,8 +49,12 @@ class ShapedSurface {
       const double t = std::tan(p.facet_deg * kDeg), a = 0.5 * p.base;
       // below -reach_ (outside the base by reach_/t) a pyramid is too low to matter
       const double e = a + reach_ / t + 1e-9 * std::max(1.0, a);
-      for (int mx = -2; mx <= 2; ++mx)
-        for (int my = -2; my <= 2; ++my) {
+      const int m_lo = static_cast<int>(std::floor((-e - p.cx) / P));
+      const int m_hi = static_cast<int>(std::ceil((P + e - p.cx) / P));
+      const int n_lo = static_cast<int>(std::floor((-e - p.cy) / P));
+      const int n_hi = static_cast<int>(std::ceil((P + e - p.cy) / P));
+      for (int mx = m_lo; mx <= m_hi; ++mx)
+        for (int my = n_lo; my <= n_hi; ++my) {
           const double cx = p.cx + mx * P, cy = p.cy + my * P;
           if (cx - e > P || cx + e < 0 || cy - e > P || cy + e < 0) continue;
           images_.push_back({cx, cy, a, t, cx - e, cx + e, cy - e, cy + e});

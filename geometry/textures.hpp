@@ -61,7 +61,7 @@ TileMesh random_pyramids_tile(const RandomPyramidsSpec& spec);
 /// What random_pyramids_tile built.
 struct RandomPyramidsReport {
   std::size_t pyramids_placed = 0;   ///< pyramids drawn and placed, hidden ones included
-  std::size_t pyramids_visible = 0;  ///< pyramids with some facet piece on the surface
+  std::size_t pyramids_visible = 0;  ///< pyramids with some facet piece on the surface (exact sharp envelope only; 0 otherwise)
   double flat_fraction = 0;          ///< exact projected flat fraction of the tile
 };
 
