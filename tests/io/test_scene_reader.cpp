@@ -278,7 +278,7 @@ TEST(SceneErrors, EtchShapeKeys) {
                "tip_radius = \"0.1 um\"\n",
                3, "front.conformality", "value \"directional\"", "allowed: \"conformal\" here");
   expect_error("too_many_triangles.toml", rp + "tip_radius = \"0.001 um\"\nangular_error = \"0.5 deg\"\n", 6,
-               "front.random_pyramids.angular_error", "value \"0.5 deg\"", "allowed: at most 2e+07");
+               "front.random_pyramids.angular_error", "value \"0.5 deg\"", "allowed: at most 16384");
 }
 
 TEST(SceneErrors, UnknownKeyAtTopLevel) {
