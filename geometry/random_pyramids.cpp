@@ -1,27 +1,54 @@
 // Random upright pyramids: the layout (random_pyramid_layout) meshed as the
-// exact upper envelope of its pyramids (pyramid_envelope), and the texture
-// descriptor of texture = "random_pyramids" (keys in [….random_pyramids]).
+// exact upper envelope of its pyramids (pyramid_envelope) when they are
+// sharp and share one facet angle, else as the rounded envelope of pyramids
+// with their own facet angles (rounded_envelope); and the texture descriptor
+// of texture = "random_pyramids" (keys in [….random_pyramids]), whose keys
+// random inverted pyramids share (random_pyramid_keys.hpp).
 #include <fmt/format.h>
 
 #include <algorithm>
 
+#include "geometry/etch_shape_keys.hpp"
 #include "geometry/pyramid_envelope.hpp"
 #include "geometry/random_pyramid_count.hpp"
+#include "geometry/random_pyramid_keys.hpp"
 #include "geometry/random_pyramid_layout.hpp"
 #include "geometry/texture_descriptor.hpp"
 #include "geometry/textures.hpp"
 
 namespace lumtrap::geometry {
 
+bool is_sharp_single_angle(const RandomPyramidsSpec& spec) {
+  return spec.shape.tip_radius_um == 0 && spec.shape.valley_radius_um == 0 &&
+         spec.facet_spread.distribution == AngleDistribution::fixed;
+}
+
 TileMesh random_pyramids_tile(const RandomPyramidsSpec& spec, RandomPyramidsReport* report) {
   const RandomPyramidLayout layout = random_pyramids_layout(spec);
-  EnvelopeStats stats;
-  TileMesh mesh = pyramid_envelope_mesh(layout, spec.facet_deg, &stats);
   if (report) {
     report->pyramids_placed = layout.pyramids.size();
-    report->pyramids_visible = stats.visible_pyramids;
     report->flat_fraction = layout.flat_fraction;
   }
+  if (is_sharp_single_angle(spec)) {
+    EnvelopeStats stats;
+    TileMesh mesh = pyramid_envelope_mesh(layout, spec.facet_deg, &stats);
+    if (report) report->pyramids_visible = stats.visible_pyramids;
+    return mesh;
+  }
+  const std::vector<double> angles = draw_facet_angles(spec.facet_spread, layout.pyramids.size(), spec.seed);
+  std::vector<ShapedPyramid> shaped(layout.pyramids.size());
+  for (std::size_t i = 0; i < shaped.size(); ++i)
+    shaped[i] = {layout.pyramids[i].cx, layout.pyramids[i].cy, layout.pyramids[i].base, angles[i]};
+  return rounded_envelope_mesh(layout.period, shaped, spec.shape);
+}
+
+TileMesh random_inverted_pyramids_tile(const RandomPyramidsSpec& spec, RandomPyramidsReport* report) {
+  // Pits are upright pyramids mirrored in height: the rims between pits are
+  // the upright texture's valleys, the pit bottoms its tips.
+  RandomPyramidsSpec upright = spec;
+  std::swap(upright.shape.tip_radius_um, upright.shape.valley_radius_um);
+  TileMesh mesh = random_pyramids_tile(upright, report);
+  mirror_to_pits(mesh);
   return mesh;
 }
 
@@ -44,7 +71,9 @@ SizeDistribution distribution_of(const std::string& word) {
 
 std::string um(double x) { return fmt::format("{} um", x); }
 
-std::optional<ParamProblem> check_random(const TextureParams& p) {
+}  // namespace
+
+std::optional<ParamProblem> check_random_pyramids(const TextureParams& p) {
   const RandomPyramidsSpec s = random_pyramids_spec(p);
   const bool fixed = s.distribution == SizeDistribution::fixed;
   const bool uniform = s.distribution == SizeDistribution::uniform;
@@ -74,10 +103,21 @@ std::optional<ParamProblem> check_random(const TextureParams& p) {
                         fmt::format("tile {} is smaller than {} × the mean pyramid size {}; allowed: tile >= {}",
                                     um(s.tile_um), kMinTileOverMeanSize, um(mean_size),
                                     um(kMinTileOverMeanSize * mean_size))};
-  return std::nullopt;
+  const FacetAngleSpread& f = s.facet_spread;
+  if (f.distribution == AngleDistribution::uniform && !(f.a_deg < f.b_deg))
+    return ParamProblem{{"facet_angle_max", "facet_angle_min"},
+                        fmt::format("facet_angle_min {} deg is not below facet_angle_max {} deg; allowed: min < max",
+                                    f.a_deg, f.b_deg)};
+  if (f.distribution == AngleDistribution::normal && !(f.a_deg - 3 * f.b_deg > 0 && f.a_deg + 3 * f.b_deg < 90))
+    return ParamProblem{{"facet_angle_sd", "facet_angle"},
+                        fmt::format("facet_angle {} deg ± 3 × facet_angle_sd {} deg reaches outside (0, 90) deg "
+                                    "(draws are truncated at ± 3 sd); allowed: facet_angle_sd below {:.4g} deg",
+                                    f.a_deg, f.b_deg, std::min(f.a_deg, 90 - f.a_deg) / 3)};
+  if (is_sharp_single_angle(s)) return std::nullopt;
+  return check_mesh_size(s.tile_um, mean_size, random_pyramids_feature(p), steepest_facet_angle(f), s.shape);
 }
 
-double random_feature(const TextureParams& p) {
+double random_pyramids_feature(const TextureParams& p) {
   const RandomPyramidsSpec s = random_pyramids_spec(p);
   switch (s.distribution) {
     case SizeDistribution::fixed:
@@ -87,8 +127,6 @@ double random_feature(const TextureParams& p) {
   }
   return s.size_a_um;
 }
-
-}  // namespace
 
 RandomPyramidsSpec random_pyramids_spec(const TextureParams& p) {
   RandomPyramidsSpec s;
@@ -106,11 +144,73 @@ RandomPyramidsSpec random_pyramids_spec(const TextureParams& p) {
       break;
   }
   s.min_size_um = p.number("min_size");
-  s.facet_deg = p.number("facet_angle");
+  const std::string& spread = p.word("facet_angle_distribution");
+  if (spread == "uniform") {
+    s.facet_spread = {AngleDistribution::uniform, p.number("facet_angle_min"), p.number("facet_angle_max")};
+    s.facet_deg = 0.5 * (s.facet_spread.a_deg + s.facet_spread.b_deg);
+  } else if (spread == "normal") {
+    s.facet_spread = {AngleDistribution::normal, p.number("facet_angle"), p.number("facet_angle_sd")};
+    s.facet_deg = s.facet_spread.a_deg;
+  } else {
+    s.facet_spread = {AngleDistribution::fixed, p.number("facet_angle"), 0.0};
+    s.facet_deg = s.facet_spread.a_deg;
+  }
+  s.shape = etch_shape(p);
   s.flat_fraction = p.number("flat_fraction");
   s.tile_um = p.number("tile");
   s.seed = static_cast<std::uint64_t>(p.number("seed"));
   return s;
+}
+
+std::vector<ParamSpec> random_pyramid_params() {
+  return {
+      {.key = "distribution", .kind = ParamKind::word, .doc = "distribution of the base size",
+       .fallback_word = "uniform", .words = kDistributions},
+      {.key = "size", .kind = ParamKind::length_um, .doc = "base size", .lo = 0, .lo_open = true,
+       .when_key = "distribution", .when_words = {"fixed"}, .required = true, .example = "3 um"},
+      {.key = "min", .kind = ParamKind::length_um, .doc = "smallest base size", .fallback = 1.0, .lo = 0,
+       .lo_open = true, .when_key = "distribution", .when_words = {"uniform"}, .example = "1 um"},
+      {.key = "max", .kind = ParamKind::length_um, .doc = "largest base size (min < max)", .fallback = 5.0,
+       .lo = 0, .lo_open = true, .when_key = "distribution", .when_words = {"uniform"}, .example = "5 um"},
+      {.key = "mean", .kind = ParamKind::length_um, .doc = "mean base size", .lo = 0, .lo_open = true,
+       .when_key = "distribution", .when_words = {"normal", "lognormal"}, .required = true,
+       .example = "3 um"},
+      {.key = "sd", .kind = ParamKind::length_um, .doc = "standard deviation of the base size", .lo = 0,
+       .when_key = "distribution", .when_words = {"normal", "lognormal"}, .required = true,
+       .example = "1 um"},
+      {.key = "min_size", .kind = ParamKind::length_um,
+       .doc = "sizes drawn below it are drawn again (normal tails); must lie below the largest size the "
+              "distribution gives",
+       .fallback = 0.2, .lo = 0, .lo_open = true, .example = "0.2 um"},
+      {.key = "facet_angle_distribution", .kind = ParamKind::word,
+       .doc = "distribution of the facet angle over the pyramids (one angle per pyramid)",
+       .fallback_word = "fixed", .words = {"fixed", "uniform", "normal"}},
+      {.key = "facet_angle", .kind = ParamKind::angle_deg,
+       .doc = "facet angle to the wafer plane (normal: the mean); default atan(sqrt 2) (common practice)",
+       .fallback = kFacet111Deg, .lo = 0, .hi = 90, .lo_open = true, .hi_open = true,
+       .when_key = "facet_angle_distribution", .when_words = {"fixed", "normal"}, .example = "54.74 deg"},
+      {.key = "facet_angle_sd", .kind = ParamKind::angle_deg,
+       .doc = "standard deviation of the facet angle (draws truncated at ± 3 sd, inside (0, 90) deg)", .lo = 0,
+       .when_key = "facet_angle_distribution", .when_words = {"normal"}, .required = true,
+       .example = "2 deg"},
+      {.key = "facet_angle_min", .kind = ParamKind::angle_deg, .doc = "lowest facet angle", .lo = 0, .hi = 90,
+       .lo_open = true, .hi_open = true, .when_key = "facet_angle_distribution", .when_words = {"uniform"},
+       .required = true, .example = "50 deg"},
+      {.key = "facet_angle_max", .kind = ParamKind::angle_deg, .doc = "highest facet angle (min < max)",
+       .lo = 0, .hi = 90, .lo_open = true, .hi_open = true, .when_key = "facet_angle_distribution",
+       .when_words = {"uniform"}, .required = true, .example = "56 deg"},
+      {.key = "flat_fraction", .kind = ParamKind::number,
+       .doc = "projected area left flat: pyramids are added until at most this fraction is flat",
+       .fallback = 0.0, .lo = 0, .hi = 1, .hi_open = true, .example = "0.05"},
+      {.key = "tile", .kind = ParamKind::length_um,
+       .doc = "tile side, at least 4 × the mean base size (so that one tile samples the distribution)",
+       .fallback = 50.0, .lo = 0, .lo_open = true, .example = "50 um"},
+      {.key = "seed", .kind = ParamKind::integer, .doc = "the same seed gives the same tile", .fallback = 1,
+       .lo = 0, .hi = 9007199254740992.0, .example = "1"},
+      tip_radius_param(),
+      valley_radius_param(),
+      angular_error_param(),
+  };
 }
 
 extern const TextureDescriptor kRandomPyramidsTexture;
@@ -118,41 +218,10 @@ const TextureDescriptor kRandomPyramidsTexture{
     .kind = "random_pyramids",
     .table = "random_pyramids",
     .summary = "random upright pyramids of random base size, placed at random in a periodic square tile",
-    .params =
-        {
-            {.key = "distribution", .kind = ParamKind::word, .doc = "distribution of the base size",
-             .fallback_word = "uniform", .words = kDistributions},
-            {.key = "size", .kind = ParamKind::length_um, .doc = "base size", .lo = 0, .lo_open = true,
-             .when_key = "distribution", .when_words = {"fixed"}, .required = true, .example = "3 um"},
-            {.key = "min", .kind = ParamKind::length_um, .doc = "smallest base size", .fallback = 1.0, .lo = 0,
-             .lo_open = true, .when_key = "distribution", .when_words = {"uniform"}, .example = "1 um"},
-            {.key = "max", .kind = ParamKind::length_um, .doc = "largest base size (min < max)", .fallback = 5.0,
-             .lo = 0, .lo_open = true, .when_key = "distribution", .when_words = {"uniform"}, .example = "5 um"},
-            {.key = "mean", .kind = ParamKind::length_um, .doc = "mean base size", .lo = 0, .lo_open = true,
-             .when_key = "distribution", .when_words = {"normal", "lognormal"}, .required = true,
-             .example = "3 um"},
-            {.key = "sd", .kind = ParamKind::length_um, .doc = "standard deviation of the base size", .lo = 0,
-             .when_key = "distribution", .when_words = {"normal", "lognormal"}, .required = true,
-             .example = "1 um"},
-            {.key = "min_size", .kind = ParamKind::length_um,
-             .doc = "sizes drawn below it are drawn again (normal tails); must lie below the largest size the "
-                    "distribution gives",
-             .fallback = 0.2, .lo = 0, .lo_open = true, .example = "0.2 um"},
-            {.key = "facet_angle", .kind = ParamKind::angle_deg, .doc = "facet angle to the wafer plane",
-             .fallback = kFacet111Deg, .lo = 0, .hi = 90, .lo_open = true, .hi_open = true,
-             .example = "54.74 deg"},
-            {.key = "flat_fraction", .kind = ParamKind::number,
-             .doc = "projected area left flat: pyramids are added until at most this fraction is flat",
-             .fallback = 0.0, .lo = 0, .hi = 1, .hi_open = true, .example = "0.05"},
-            {.key = "tile", .kind = ParamKind::length_um,
-             .doc = "tile side, at least 4 × the mean base size (so that one tile samples the distribution)",
-             .fallback = 50.0, .lo = 0, .lo_open = true, .example = "50 um"},
-            {.key = "seed", .kind = ParamKind::integer, .doc = "the same seed gives the same tile", .fallback = 1,
-             .lo = 0, .hi = 9007199254740992.0, .example = "1"},
-        },
+    .params = random_pyramid_params(),
     .regular = false,
-    .check = check_random,
-    .smallest_feature_um = random_feature,
+    .check = check_random_pyramids,
+    .smallest_feature_um = random_pyramids_feature,
     .build = [](const TextureParams& p) { return random_pyramids_tile(random_pyramids_spec(p)); },
     .estimate_triangles =
         [](const TextureParams& p) { return estimate_random_pyramids(random_pyramids_spec(p)).triangles; },

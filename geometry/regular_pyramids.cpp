@@ -4,6 +4,7 @@
 #include <numbers>
 #include <stdexcept>
 #include <string>
+#include <utility>
 
 #include "geometry/textures.hpp"
 
@@ -60,11 +61,30 @@ TileMesh regular_pyramids_tile(double base_um, double facet_deg, double gap_um, 
   return m;
 }
 
+TileMesh shaped_regular_pyramids_tile(double base_um, double facet_deg, double gap_um, bool inverted,
+                                      const EtchShape& shape) {
+  if (shape.tip_radius_um == 0 && shape.valley_radius_um == 0)
+    return regular_pyramids_tile(base_um, facet_deg, gap_um, inverted);
+  check(base_um > 0, "base_um = " + std::to_string(base_um) + " (allowed: > 0)");
+  check(gap_um >= 0, "gap_um = " + std::to_string(gap_um) + " (allowed: >= 0)");
+  const double period = base_um + gap_um;
+  // Pits are upright pyramids mirrored in height: their rims are the upright
+  // texture's valleys, their bottoms its tips.
+  EtchShape upright = shape;
+  if (inverted) std::swap(upright.tip_radius_um, upright.valley_radius_um);
+  TileMesh m = rounded_envelope_mesh(period, {{0.5 * period, 0.5 * period, base_um, facet_deg}}, upright);
+  if (inverted) mirror_to_pits(m);
+  return m;
+}
+
 }  // namespace lumtrap::geometry
 
 // ---------------------------------------------------------------------------
 // texture = "upright_pyramids" / "inverted_pyramids", keys in [….pyramids].
 
+#include <fmt/format.h>
+
+#include "geometry/etch_shape_keys.hpp"
 #include "geometry/texture_descriptor.hpp"
 
 namespace lumtrap::geometry {
@@ -82,13 +102,39 @@ std::vector<ParamSpec> regular_params() {
        .doc = "facet angle to the wafer plane; default atan(sqrt 2), the {111} facets of alkaline-etched (100) "
               "silicon (common practice)",
        .fallback = kFacet111Deg, .lo = 0, .hi = 90, .lo_open = true, .hi_open = true, .example = "54.74 deg"},
+      tip_radius_param(), valley_radius_param(), angular_error_param(),
   };
 }
 
 double regular_feature(const TextureParams& p) { return p.number("base"); }
 
-// Four facets, and eight border triangles when there is a gap (as built above).
-double regular_triangles(const TextureParams& p) { return p.number("gap") > 0 ? 12.0 : 4.0; }
+// Four facets, and eight border triangles when there is a gap (as built
+// above); rounded pyramids as the refined mesh estimates (etch_shape_keys.hpp).
+double regular_triangles(const TextureParams& p) {
+  const EtchShape shape = etch_shape(p);
+  if (shape.tip_radius_um == 0 && shape.valley_radius_um == 0) return p.number("gap") > 0 ? 12.0 : 4.0;
+  return rounded_envelope_triangle_estimate(p.number("base") + p.number("gap"), p.number("base"), p.number("base"),
+                                            p.number("facet_angle"), shape);
+}
+
+std::optional<ParamProblem> check_regular(const TextureParams& p) {
+  const EtchShape shape = etch_shape(p);
+  const double a = 0.5 * p.number("base");
+  // A radius larger than the pyramid leaves no facet (common practice: the
+  // rounded part must fit inside the pyramid it rounds).
+  for (const char* key : {"tip_radius", "valley_radius"})
+    if (p.number(key) > a)
+      return ParamProblem{{key}, fmt::format("{} {} um is more than half the base ({} um); allowed: 0 to {} um", key,
+                                             p.number(key), a, a)};
+  if (shape.tip_radius_um == 0 && shape.valley_radius_um == 0) return std::nullopt;  // the exact sharp mesh
+  return check_mesh_size(p.number("base") + p.number("gap"), p.number("base"), p.number("base"),
+                         p.number("facet_angle"), shape);
+}
+
+TileMesh build_regular(const TextureParams& p, bool inverted) {
+  return shaped_regular_pyramids_tile(p.number("base"), p.number("facet_angle"), p.number("gap"), inverted,
+                                      etch_shape(p));
+}
 
 }  // namespace
 
@@ -99,12 +145,9 @@ const TextureDescriptor kUprightPyramidsTexture{
     .summary = "a square array of square-based upright pyramids",
     .params = regular_params(),
     .regular = true,
-    .check = nullptr,
+    .check = check_regular,
     .smallest_feature_um = regular_feature,
-    .build =
-        [](const TextureParams& p) {
-          return regular_pyramids_tile(p.number("base"), p.number("facet_angle"), p.number("gap"), false);
-        },
+    .build = [](const TextureParams& p) { return build_regular(p, false); },
     .estimate_triangles = regular_triangles,
 };
 
@@ -115,12 +158,9 @@ const TextureDescriptor kInvertedPyramidsTexture{
     .summary = "a square array of inverted pyramids (pits)",
     .params = regular_params(),
     .regular = true,
-    .check = nullptr,
+    .check = check_regular,
     .smallest_feature_um = regular_feature,
-    .build =
-        [](const TextureParams& p) {
-          return regular_pyramids_tile(p.number("base"), p.number("facet_angle"), p.number("gap"), true);
-        },
+    .build = [](const TextureParams& p) { return build_regular(p, true); },
     .estimate_triangles = regular_triangles,
 };
 

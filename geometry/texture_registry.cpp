@@ -12,6 +12,7 @@ extern const TextureDescriptor kPlanarTexture;
 extern const TextureDescriptor kUprightPyramidsTexture;
 extern const TextureDescriptor kInvertedPyramidsTexture;
 extern const TextureDescriptor kRandomPyramidsTexture;
+extern const TextureDescriptor kRandomInvertedPyramidsTexture;
 extern const TextureDescriptor kHeightMapTexture;
 
 std::span<const TextureDescriptor* const> texture_descriptors() {
@@ -20,6 +21,7 @@ std::span<const TextureDescriptor* const> texture_descriptors() {
       &kUprightPyramidsTexture,
       &kInvertedPyramidsTexture,
       &kRandomPyramidsTexture,
+      &kRandomInvertedPyramidsTexture,
       &kHeightMapTexture,
   };
   return all;

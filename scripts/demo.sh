@@ -2,7 +2,8 @@
 # Installs what is missing, builds lumtrap, and runs the demo: line K7 (a
 # fictional cell line) compares three etch recipes and its polished
 # reference, plus the ideal Lambertian limit, and a small sweep (front SiNx
-# thickness x rear metal); then draws every result with `lumtrap plot` and
+# thickness x rear metal) and an etch study (three recipes that differ in tip
+# rounding, facet angle and flat fraction); then draws every result with `lumtrap plot` and
 # writes a self-contained HTML report of each (`lumtrap report`). Results go
 # to results/demo/.
 set -euo pipefail
@@ -16,6 +17,12 @@ echo "== exact planar solver: polished reference"
 for s in k7_polished_reference k7_recipe_a_coarse k7_recipe_b_standard k7_recipe_c_fine \
          lambertian_limit_180um; do
   echo "== ray tracing: scenes/$s.toml"
+  "$BIN" run "scenes/$s.toml" -o "$OUT/$s" --overwrite
+done
+ETCH=(k7_etch_1_sharp k7_etch_2_aged_bath k7_etch_3_short_etch)
+for s in "${ETCH[@]}"; do
+  echo "== etch study: scenes/$s.toml (texture statistics, then ray tracing)"
+  "$BIN" texture "scenes/$s.toml" -o "$OUT/$s-texture" --overwrite > /dev/null
   "$BIN" run "scenes/$s.toml" -o "$OUT/$s" --overwrite
 done
 SWEEP="$OUT/k7_sinx_rear_sweep"
@@ -34,6 +41,10 @@ echo "== line K7, AM1.5G, 300-1200 nm (model estimates, mA/cm2 ± standard error
 python3 scripts/compare_results.py "$OUT/k7_polished_reference-planar" "$OUT/k7_polished_reference" \
   "$OUT/k7_recipe_a_coarse" "$OUT/k7_recipe_b_standard" "$OUT/k7_recipe_c_fine" "$OUT/lambertian_limit_180um"
 echo
+echo "== line K7 etch study: shape of the pyramids (model estimates, mA/cm2 ± standard error)"
+python3 scripts/compare_results.py "${ETCH[@]/#/$OUT/}"
+echo
 echo "Result folders are in $OUT/ (spectral.csv, summary.json, generation.csv, escape_angles.csv, ...),"
 echo "each with its charts in plots/ and a report.html to open in a browser; comparison charts in"
-echo "$OUT/comparison-plots/; the sweep's merged table, charts and report in $SWEEP/."
+echo "$OUT/comparison-plots/; the sweep's merged table, charts and report in $SWEEP/; the etch study's"
+echo "texture statistics and relief pictures in $OUT/k7_etch_*-texture/."

@@ -449,7 +449,9 @@ double SceneReader::texture_number(const toml::node& n, const std::string& key, 
   const bool lo_ok = p.lo_open ? v > p.lo : v >= p.lo;
   const bool hi_ok = p.hi_open ? v < p.hi : v <= p.hi;
   if (lo_ok && hi_ok) return v;
-  const std::string lo = format_number(p.lo) + unit, hi = format_number(p.hi) + unit;
+  // (an open end of the range is never written: it is infinite)
+  const auto bound = [&](double b) { return std::isfinite(b) ? format_number(b) + unit : std::string(); };
+  const std::string lo = bound(p.lo), hi = bound(p.hi);
   std::string allowed;
   if (std::isinf(p.hi))
     allowed = fmt::format("{} {} {}, e.g. \"{}\"", what, p.lo_open ? ">" : ">=", lo, p.example);
@@ -474,6 +476,19 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
   Surface s;
   s.texture = read_texture(tb, path, tb.get("texture"));
   s.conformality = word_or(tb, path, "conformality", kConformalityWords, Conformality::conformal);
+  if (s.conformality == Conformality::directional) {
+    // one film table per distinct facet tilt: a rounded surface (or one
+    // with a spread of facet angles) has as many tilts as triangles
+    const auto& t = s.texture;
+    const bool rounded = (t.numbers.count("tip_radius") && t.number("tip_radius") > 0) ||
+                         (t.numbers.count("valley_radius") && t.number("valley_radius") > 0) ||
+                         (t.words.count("facet_angle_distribution") && t.word("facet_angle_distribution") != "fixed");
+    if (rounded)
+      fail_value(*tb.get("conformality"), path + ".conformality",
+                 "directional films need a few distinct facet tilts, and this texture is rounded or has a spread "
+                 "of facet angles; allowed: \"conformal\" here, or radii 0 and facet_angle_distribution = "
+                 "\"fixed\"");
+  }
   s.scattering = word_or(tb, path, "scattering", kScatteringWords, SurfaceScattering::specular);
   s.interface_model = word_or(tb, path, "interface", kInterfaceWords, InterfaceModel::films);
 

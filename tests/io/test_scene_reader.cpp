@@ -256,6 +256,31 @@ TEST(SceneParser, RandomPyramidDistributions) {
 // ---------------------------------------------------------------------------
 // Errors: file name, line, key path and value in every message
 
+TEST(SceneErrors, EtchShapeKeys) {
+  const std::string rp = "[front]\ntexture = \"random_inverted_pyramids\"\n[front.random_pyramids]\ntile = \"20 um\"\n";
+  expect_error("tip_negative.toml", "[front]\ntexture = \"upright_pyramids\"\n[front.pyramids]\ntip_radius = \"-0.1 um\"\n",
+               4, "front.pyramids.tip_radius", "value \"-0.1 um\"", "allowed: a length >= 0 um");
+  expect_error("tip_too_large.toml",
+               "[front]\ntexture = \"inverted_pyramids\"\n[front.pyramids]\nbase = \"2 um\"\nvalley_radius = \"1.5 um\"\n", 5,
+               "front.pyramids.valley_radius", "value \"1.5 um\"", "allowed: 0 to 1 um");
+  expect_error("sd_too_wide.toml",
+               rp + "facet_angle_distribution = \"normal\"\nfacet_angle = \"54 deg\"\nfacet_angle_sd = \"20 deg\"\n", 7,
+               "front.random_pyramids.facet_angle_sd", "value \"20 deg\"", "allowed: facet_angle_sd below 12 deg");
+  expect_error("sd_missing.toml", rp + "facet_angle_distribution = \"normal\"\n", 3,
+               "front.random_pyramids.facet_angle_sd", "", "required");
+  expect_error("angles_swapped.toml",
+               rp + "facet_angle_distribution = \"uniform\"\nfacet_angle_min = \"56 deg\"\nfacet_angle_max = \"50 deg\"\n",
+               7, "front.random_pyramids.facet_angle_max", "value \"50 deg\"", "allowed: min < max");
+  expect_error("angular_error.toml", rp + "angular_error = \"0.1 deg\"\n", 5, "front.random_pyramids.angular_error",
+               "value \"0.1 deg\"", "allowed: 0.5 deg <= angular_error <= 20 deg");
+  expect_error("directional_rounded.toml",
+               "[front]\ntexture = \"upright_pyramids\"\nconformality = \"directional\"\n[front.pyramids]\n"
+               "tip_radius = \"0.1 um\"\n",
+               3, "front.conformality", "value \"directional\"", "allowed: \"conformal\" here");
+  expect_error("too_many_triangles.toml", rp + "tip_radius = \"0.001 um\"\nangular_error = \"0.5 deg\"\n", 6,
+               "front.random_pyramids.angular_error", "value \"0.5 deg\"", "allowed: at most 16384");
+}
+
 TEST(SceneErrors, UnknownKeyAtTopLevel) {
   expect_error("unknown_top.toml", "[wafer]\nthickness = \"160 um\"\n\n[wafr]\nthickness = \"1 um\"\n", 4, "wafr",
                "allowed keys at the top level: scene, ambient, wafer");

@@ -147,5 +147,54 @@ seed = 5
   }
 }
 
+// The part of the light taking three facet hits instead of two depends on the
+// facet angle: at normal incidence a ray reflected by one facet leaves at
+// 180° - 2θ from the downward vertical towards the facing facet of the next
+// pyramid, and whether its second reflection clears the pyramids or meets a
+// third facet follows from the facet planes alone. The tracer's counts after 2 and 3 front hits against
+// the analytic facet tracing above (Fresnel-weighted), for two facet angles,
+// and the geometric fraction of rays with three hits moving the same way.
+TEST(TransportPyramids, ThreeHitFractionFollowsTheFacetAngle) {
+  const std::uint64_t N = 40000;
+  const Material si = find_material("si_green2008");
+  double traced3[2] = {0, 0}, analytic3[2] = {0, 0}, sigma3[2] = {0, 0};
+  const double angles[2] = {50.0, 54.7356103172};
+  for (int k = 0; k < 2; ++k) {
+    const Scene scene = test::scene_from_text(fmt::format(R"(
+[wafer]
+thickness = "1000 um"
+[front]
+texture = "upright_pyramids"
+[front.pyramids]
+base = "10 um"
+facet_angle = "{} deg"
+[rear]
+medium = "air"
+[illumination]
+wavelengths = ["800 nm"]
+[run]
+photons = 1
+seed = 11
+)", angles[k]), fmt::format("facet_{}", k));
+    auto run = prepare_run(scene);
+    const auto t = test::trace_all(*run, N)[0];
+    const Expected e = analytic(10.0, angles[k] * std::numbers::pi / 180.0, si.index_at(800.0), 300);
+    const double R2 = double(t.front_hits[2]) / N, R3 = double(t.front_hits[3]) / N;
+    std::cout << fmt::format("facet {:.2f} deg: after 2 hits traced {:.5f} analytic {:.5f}; after 3 hits traced {:.5f} "
+                             "analytic {:.5f}; rays with 3 hits (geometric) {:.4f}\n",
+                             angles[k], R2, e.R2, R3, e.R3, e.geometric3);
+    EXPECT_NEAR(R2, e.R2, 4 * test::sigma_of(t.front_hits[2], N) + 1e-4);
+    EXPECT_NEAR(R3, e.R3, 4 * test::sigma_of(t.front_hits[3], N) + 1e-4);
+    traced3[k] = R3;
+    analytic3[k] = e.geometric3;
+    sigma3[k] = test::sigma_of(t.front_hits[3], N);
+  }
+  // the analytic geometry tells which way the three-hit share moves
+  ASSERT_GT(std::abs(analytic3[1] - analytic3[0]), 0.01);
+  const double moved = (traced3[1] - traced3[0]) * (analytic3[1] - analytic3[0]);
+  EXPECT_GT(moved, 0) << "three-hit share moves against the facet-plane calculation";
+  EXPECT_GT(std::abs(traced3[1] - traced3[0]), 4 * std::hypot(sigma3[0], sigma3[1]));
+}
+
 }  // namespace
 }  // namespace lumtrap

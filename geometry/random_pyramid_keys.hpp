@@ -1,0 +1,18 @@
+#pragma once
+// The scene keys of random pyramids (texture_descriptor.hpp), shared by
+// random upright pyramids (random_pyramids.cpp, which defines them) and
+// random inverted pyramids (random_inverted_pyramids.cpp): the same size
+// distributions, overlap rule, flat fraction, facet angles and etch shape.
+#include <optional>
+#include <vector>
+
+#include "geometry/texture_descriptor.hpp"
+
+namespace lumtrap::geometry {
+
+std::vector<ParamSpec> random_pyramid_params();
+std::optional<ParamProblem> check_random_pyramids(const TextureParams& params);
+/// The smallest typical base size, µm.
+double random_pyramids_feature(const TextureParams& params);
+
+}  // namespace lumtrap::geometry
