@@ -2,7 +2,6 @@
 // metal-assisted etches make them) with the keys of random upright pyramids
 // in [….random_pyramids]; the generator is random_inverted_pyramids_tile
 // (random_pyramids.cpp: the upright layout mirrored in height).
-#include "geometry/random_pyramid_count.hpp"
 #include "geometry/random_pyramid_keys.hpp"
 #include "geometry/textures.hpp"
 
@@ -19,11 +18,9 @@ const TextureDescriptor kRandomInvertedPyramidsTexture{
     .check = check_random_pyramids,
     .smallest_feature_um = random_pyramids_feature,
     .build = [](const TextureParams& p) { return random_inverted_pyramids_tile(random_pyramids_spec(p)); },
-    // the upright layout mirrored in height: the same triangles
-    .estimate_triangles =
-        [](const TextureParams& p) { return estimate_random_pyramids(random_pyramids_spec(p)).triangles; },
+    .estimate_triangles = random_pyramids_triangles,
     .size_key = "tile",
-    .size_advice = "a smaller tile, or larger pyramids (the triangles grow as (tile / mean size)²)",
+    .size_advice = kRandomPyramidsSizeAdvice,
 };
 
 }  // namespace lumtrap::geometry

@@ -117,6 +117,10 @@ std::optional<ParamProblem> check_random_pyramids(const TextureParams& p) {
   return check_mesh_size(s.tile_um, mean_size, random_pyramids_feature(p), steepest_facet_angle(f), s.shape);
 }
 
+double random_pyramids_triangles(const TextureParams& p) {
+  return estimate_random_pyramids(random_pyramids_spec(p)).triangles;
+}
+
 double random_pyramids_feature(const TextureParams& p) {
   const RandomPyramidsSpec s = random_pyramids_spec(p);
   switch (s.distribution) {
@@ -223,10 +227,9 @@ const TextureDescriptor kRandomPyramidsTexture{
     .check = check_random_pyramids,
     .smallest_feature_um = random_pyramids_feature,
     .build = [](const TextureParams& p) { return random_pyramids_tile(random_pyramids_spec(p)); },
-    .estimate_triangles =
-        [](const TextureParams& p) { return estimate_random_pyramids(random_pyramids_spec(p)).triangles; },
+    .estimate_triangles = random_pyramids_triangles,
     .size_key = "tile",
-    .size_advice = "a smaller tile, or larger pyramids (the triangles grow as (tile / mean size)²)",
+    .size_advice = kRandomPyramidsSizeAdvice,
 };
 
 }  // namespace lumtrap::geometry

@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numeric>
 #include <fmt/format.h>
 
 #include "io/paired_difference.hpp"
@@ -80,25 +81,25 @@ WavelengthTally trace_wavelength(const PreparedRun& run, const WavelengthOptics&
 namespace {
 
 /// J_G of every paired photon group, J_g = q Σ_i w_i n_g,i / N_g,i (the same
-/// weighting as J_G over the group's photons), and the batch-means error
-/// sd(J_g) / sqrt(G). Left empty when some group has no photon at some
-/// wavelength (fewer photons than groups).
+/// weighting as J_G over the group's photons N_g,i, the sum of its end-state
+/// bins), and the batch-means error sd(J_g) / sqrt(G). Left empty when some
+/// group has no photon at some wavelength (fewer photons than groups).
 void paired_group_currents(const TallyLayout& L, const std::vector<double>& w,
                            const std::vector<WavelengthTally>& tallies, Summary& s) {
   const auto G = std::size_t(L.photon_groups);
+  const std::size_t bins = L.bins.size();
   const std::size_t absorbed = L.bins.slot(EndState::absorbed_silicon);
   s.J_G_groups_mA_cm2.clear();
   s.J_G_sigma_groups_mA_cm2 = 0;
-  for (const auto& t : tallies)
-    for (auto n : t.photons_by_group)
-      if (n == 0) return;
-  for (std::size_t g = 0; g < G; ++g) {
-    double flux = 0;
-    for (std::size_t i = 0; i < tallies.size(); ++i)
-      flux += w[i] * double(tallies[i].ended_by_group[g * L.bins.size() + absorbed]) /
-              double(tallies[i].photons_by_group[g]);
-    s.J_G_groups_mA_cm2.push_back(current_mA_per_cm2(flux));
-  }
+  std::vector<double> flux(G, 0.0);
+  for (std::size_t i = 0; i < tallies.size(); ++i)
+    for (std::size_t g = 0; g < G; ++g) {
+      const auto row = tallies[i].ended_by_group.begin() + std::ptrdiff_t(g * bins);
+      const std::uint64_t photons = std::accumulate(row, row + std::ptrdiff_t(bins), std::uint64_t(0));
+      if (photons == 0) return;
+      flux[g] += w[i] * double(row[std::ptrdiff_t(absorbed)]) / double(photons);
+    }
+  for (double f : flux) s.J_G_groups_mA_cm2.push_back(current_mA_per_cm2(f));
   s.J_G_sigma_groups_mA_cm2 = batch_means_sigma(s.J_G_groups_mA_cm2);
 }
 

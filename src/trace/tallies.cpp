@@ -31,7 +31,6 @@ WavelengthTally::WavelengthTally(const TallyLayout& layout)
       rear_angle(std::size_t(layout.polar_bins) * layout.azimuth_bins, 0),
       passes_absorbed(layout.pass_bins, 0),
       front_hits(layout.hit_bins, 0),
-      photons_by_group(std::size_t(layout.photon_groups), 0),
       ended_by_group(std::size_t(layout.photon_groups) * layout.bins.size(), 0) {}
 
 WavelengthTally& WavelengthTally::operator+=(const WavelengthTally& o) {

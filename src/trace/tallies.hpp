@@ -44,9 +44,9 @@ struct WavelengthTally {
   std::vector<std::uint64_t> rear_angle;       ///< arrivals at the rear zone by [polar][azimuth]
   std::vector<std::uint64_t> passes_absorbed;  ///< absorbed_silicon by number of bulk passes
   std::vector<std::uint64_t> front_hits;       ///< reflected_front by number of front hits
-  // paired groups (TallyLayout::photon_groups)
-  std::vector<std::uint64_t> photons_by_group;  ///< launched, by group
-  std::vector<std::uint64_t> ended_by_group;    ///< [group][end-state bin]
+  /// Paired groups (TallyLayout::photon_groups): photons by [group][end-state
+  /// bin]; a group's photons are its row's sum (every photon ends once).
+  std::vector<std::uint64_t> ended_by_group;
 
   explicit WavelengthTally(const TallyLayout& layout = {});
   WavelengthTally& operator+=(const WavelengthTally& other);
@@ -66,7 +66,7 @@ inline constexpr std::array<std::pair<std::string_view, std::uint64_t Wavelength
     {"interactions", &WavelengthTally::interactions},
     {"bulk_passes", &WavelengthTally::bulk_passes},
 }};
-inline constexpr std::array<std::pair<std::string_view, std::vector<std::uint64_t> WavelengthTally::*>, 8>
+inline constexpr std::array<std::pair<std::string_view, std::vector<std::uint64_t> WavelengthTally::*>, 7>
     kTallyVectors = {{
         {"ended", &WavelengthTally::ended},
         {"depth", &WavelengthTally::depth},
@@ -74,7 +74,6 @@ inline constexpr std::array<std::pair<std::string_view, std::vector<std::uint64_
         {"rear_angle", &WavelengthTally::rear_angle},
         {"passes_absorbed", &WavelengthTally::passes_absorbed},
         {"front_hits", &WavelengthTally::front_hits},
-        {"photons_by_group", &WavelengthTally::photons_by_group},
         {"ended_by_group", &WavelengthTally::ended_by_group},
     }};
 

@@ -500,7 +500,6 @@ void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t e
     PhotonRng rng(ctx.seed, ctx.variant, ctx.wavelength_index, i);
     const auto group = std::uint32_t(i % std::uint64_t(ctx.layout->photon_groups));
     ++tally.photons;
-    ++tally.photons_by_group[group];
     trace_one(ctx, collimated, rng, group, tally);
   }
 }
