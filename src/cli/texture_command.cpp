@@ -10,6 +10,9 @@
 
 #include "cli/commands.hpp"
 #include "cli/output.hpp"
+#include "cli/output_folder_lock.hpp"
+#include "cli/output_path_check.hpp"
+#include "io/stale_result_folders.hpp"
 #include "geometry/height_map.hpp"
 #include "geometry/relief_image.hpp"
 #include "geometry/texture_statistics.hpp"
@@ -80,7 +83,7 @@ void add_texture_command(CLI::App& app) {
                                            o->image_pixels, o->image_tiles, o->image_pixels * o->image_tiles));
     const Scene scene = parse_scene_file(o->scene);
     const auto out = result_folder(*o, scene, "texture");
-    refuse_existing(out, o->overwrite);
+    check_output_folder(out, scene.file, o->overwrite);
 
     std::vector<OutputFile> files;
     files.push_back({"scene.toml", resolved_scene_toml(scene)});
@@ -125,6 +128,8 @@ void add_texture_command(CLI::App& app) {
       std::cout << fmt::format("  heights: Sq {:.4g} um, Sa {:.4g} um, Sz {:.4g} um\n", s.sq_um, s.sa_um, s.sz_um);
       std::cout << fmt::format("  pyramids: {} ({:.4g} per mm2)\n", s.pyramids.size(), s.pyramids_per_mm2);
     }
+    const OutputFolderLock lock(out);
+    for (const auto& note : tidy_stale_result_folders(out)) std::cerr << "lumtrap: note: " << note << "\n";
     write_result_folder(out, files, o->overwrite);
     std::cout << "(model geometry, not a measurement)\n";
     std::cout << "results in " << out.string() << "/\n";

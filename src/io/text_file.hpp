@@ -16,7 +16,14 @@ std::string read_text_file(const std::filesystem::path& file);
 nlohmann::ordered_json read_json_file(const std::filesystem::path& file);
 
 /// Writes `content` to a temporary sibling and renames it to `file`;
-/// std::runtime_error naming the file on any I/O error (nothing left behind).
+/// std::runtime_error naming the file and the system's reason (e.g. "no
+/// space left on device (disk full)", io_error.hpp) on any I/O error
+/// (nothing left behind).
 void write_file_atomically(const std::filesystem::path& file, const std::string& content);
+
+/// Creates (or truncates) `file` and writes `content` to it, flushed to the
+/// disk (fsync) so that a full disk is noticed here; std::runtime_error
+/// naming the file and the system's reason on any error.
+void write_whole_file(const std::filesystem::path& file, const std::string& content);
 
 }  // namespace lumtrap

@@ -1,5 +1,7 @@
 #include "io/units.hpp"
 
+#include "io/toml_text.hpp"
+
 #include <charconv>
 #include <cmath>
 #include <cstdio>
@@ -29,7 +31,7 @@ struct UnitFamily {
 
 std::string quoted(std::string_view text) {
   std::string s = "\"";
-  s += text;
+  s += shortened(text);
   s += '"';
   return s;
 }
