@@ -10,7 +10,12 @@
 namespace lumtrap::cli {
 
 void add_output_options(CLI::App& cmd, OutputOptions& o) {
-  cmd.add_option("-o,--out", o.out, "result folder (default: results/<scene name>)");
+  cmd.add_option("-o,--out", o.out, "result folder (default: results/<scene name>)")
+      ->check(CLI::Validator(
+          [](std::string& text) -> std::string {
+            return text.empty() ? "an empty path; allowed: a path to a new folder, e.g. -o results/k7_recipe_a" : "";
+          },
+          "PATH"));
   cmd.add_flag("--overwrite", o.overwrite, "replace an existing result folder");
 }
 

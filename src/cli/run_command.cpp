@@ -60,7 +60,9 @@ void add_run_command(CLI::App& app) {
 
     const ThreadLimit limit(scene.run.threads, o->threads >= 0 ? "--threads" : "run.threads");
     const OutputFolderLock lock(out);
-    for (const auto& note : tidy_stale_result_folders(out)) std::cerr << "lumtrap: note: " << note << "\n";
+    const auto tidied = tidy_stale_result_folders(out);
+    for (const auto& note : tidied) std::cerr << "lumtrap: note: " << note << "\n";
+    if (!tidied.empty()) check_output_folder(out, scene.file, o->overwrite);  // a result may have been put back
     const auto t0 = std::chrono::steady_clock::now();
     auto run = prepare_run(scene);
     const auto t1 = std::chrono::steady_clock::now();

@@ -38,7 +38,9 @@ void add_planar_command(CLI::App& app) {
     r.summary.warnings = scene_warnings(scene);
     require_finite_results(r);
     const OutputFolderLock lock(out);
-    for (const auto& note : tidy_stale_result_folders(out)) std::cerr << "lumtrap: note: " << note << "\n";
+    const auto tidied = tidy_stale_result_folders(out);
+    for (const auto& note : tidied) std::cerr << "lumtrap: note: " << note << "\n";
+    if (!tidied.empty()) check_output_folder(out, scene.file, opts->overwrite);  // a result may have been put back
     write_result_folder(out, result_files(r, resolved_scene_toml(scene)), opts->overwrite);
     print_summary(r, out);
   });

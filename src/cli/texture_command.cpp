@@ -129,7 +129,9 @@ void add_texture_command(CLI::App& app) {
       std::cout << fmt::format("  pyramids: {} ({:.4g} per mm2)\n", s.pyramids.size(), s.pyramids_per_mm2);
     }
     const OutputFolderLock lock(out);
-    for (const auto& note : tidy_stale_result_folders(out)) std::cerr << "lumtrap: note: " << note << "\n";
+    const auto tidied = tidy_stale_result_folders(out);
+    for (const auto& note : tidied) std::cerr << "lumtrap: note: " << note << "\n";
+    if (!tidied.empty()) check_output_folder(out, scene.file, o->overwrite);  // a result may have been put back
     write_result_folder(out, files, o->overwrite);
     std::cout << "(model geometry, not a measurement)\n";
     std::cout << "results in " << out.string() << "/\n";

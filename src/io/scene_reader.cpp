@@ -452,7 +452,7 @@ double SceneReader::texture_number(const toml::node& n, const std::string& key, 
   const bool lo_ok = p.lo_open ? v > p.lo : v >= p.lo;
   const bool hi_ok = p.hi_open ? v < p.hi : v <= p.hi;
   if (lo_ok && hi_ok) return v;
-  const std::string lo = format_number(p.lo) + unit, hi = format_number(p.hi) + unit;
+  const std::string lo = format_number(p.lo) + unit, hi = std::isinf(p.hi) ? std::string() : format_number(p.hi) + unit;
   std::string allowed;
   if (std::isinf(p.hi))
     allowed = fmt::format("{} {} {}, e.g. \"{}\"", what, p.lo_open ? ">" : ">=", lo, p.example);

@@ -35,7 +35,7 @@ nlohmann::ordered_json read_json_file(const fs::path& file) {
   }
 }
 
-void write_whole_file(const fs::path& file, const std::string& content) {
+void write_whole_file(const fs::path& file, const std::string& content, bool sync) {
   const int fd = ::open(file.c_str(), O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0666);
   if (fd < 0) throw std::runtime_error("cannot write " + file.string() + ": " + io_error_text(errno));
   const char* p = content.data();
@@ -51,7 +51,7 @@ void write_whole_file(const fs::path& file, const std::string& content) {
     p += n;
     left -= std::size_t(n);
   }
-  if (!err && ::fsync(fd) != 0 && errno != EINVAL) err = errno;  // EINVAL: a file that cannot be synced (e.g. a pipe)
+  if (!err && sync && ::fsync(fd) != 0 && errno != EINVAL) err = errno;  // EINVAL: a file that cannot be synced (e.g. a pipe)
   if (::close(fd) != 0 && !err && errno != EINTR) err = errno;
   if (err) throw std::runtime_error("error while writing " + file.string() + ": " + io_error_text(err));
 }
@@ -60,7 +60,7 @@ void write_file_atomically(const fs::path& file, const std::string& content) {
   fs::path tmp = file;
   tmp += fmt::format(".tmp-{}", ::getpid());
   try {
-    write_whole_file(tmp, content);
+    write_whole_file(tmp, content, true);
   } catch (...) {
     std::error_code ec;
     fs::remove(tmp, ec);
