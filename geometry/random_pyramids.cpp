@@ -7,6 +7,8 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <cmath>
+#include <numbers>
 
 #include "geometry/etch_shape_keys.hpp"
 #include "geometry/pyramid_envelope.hpp"
@@ -97,11 +99,27 @@ std::optional<ParamProblem> check_random_pyramids(const TextureParams& p) {
                         fmt::format("min_size {} is above {} = {}, and sizes below min_size are redrawn; allowed: "
                                     "min_size below {}",
                                     um(s.min_size_um), size_key, um(reach), size_key)};
-  const double mean_size = uniform ? 0.5 * (s.size_a_um + s.size_b_um) : s.size_a_um;
+  double mean_size = uniform ? 0.5 * (s.size_a_um + s.size_b_um) : s.size_a_um;
+  std::string how;
+  if (s.distribution == SizeDistribution::normal && s.size_b_um > 0) {
+    // Sizes below min_size are redrawn: the sizes follow the normal
+    // distribution truncated at min_size, whose mean is
+    //   mu + sd phi(a) / (1 - Phi(a)),  a = (min_size - mu) / sd
+    // (N. L. Johnson, S. Kotz, N. Balakrishnan, Continuous Univariate
+    // Distributions, vol. 1, 2nd ed., Wiley 1994, truncated normal
+    // distributions). With sd >> mean this is far above `mean`.
+    const double a = (s.min_size_um - s.size_a_um) / s.size_b_um;
+    const double phi = std::exp(-0.5 * a * a) / std::sqrt(2 * std::numbers::pi);
+    const double upper_tail = 0.5 * std::erfc(a / std::numbers::sqrt2);
+    if (upper_tail > 0) mean_size = s.size_a_um + s.size_b_um * phi / upper_tail;
+    if (mean_size > 1.01 * s.size_a_um)
+      how = fmt::format(" (the sizes drawn: mean {} and sd {} with sizes below min_size {} drawn again)",
+                        um(s.size_a_um), um(s.size_b_um), um(s.min_size_um));
+  }
   if (s.tile_um < kMinTileOverMeanSize * mean_size)
     return ParamProblem{{"tile"},
-                        fmt::format("tile {} is smaller than {} × the mean pyramid size {}; allowed: tile >= {}",
-                                    um(s.tile_um), kMinTileOverMeanSize, um(mean_size),
+                        fmt::format("tile {} is smaller than {} × the mean pyramid size {}{}; allowed: tile >= {}",
+                                    um(s.tile_um), kMinTileOverMeanSize, um(mean_size), how,
                                     um(kMinTileOverMeanSize * mean_size))};
   const FacetAngleSpread& f = s.facet_spread;
   if (f.distribution == AngleDistribution::uniform && !(f.a_deg < f.b_deg))

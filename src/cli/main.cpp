@@ -4,6 +4,7 @@
 #include <iostream>
 
 #include "cli/commands.hpp"
+#include "io/toml_text.hpp"
 
 int main(int argc, char** argv) {
   CLI::App app{"lumtrap " LUMTRAP_VERSION
@@ -22,6 +23,19 @@ int main(int argc, char** argv) {
   lumtrap::cli::add_exr_channels_command(app);
   lumtrap::cli::add_texture_command(app);
   lumtrap::cli::add_verify_command(app);
+  // No command, or a first word that is no option and no command: say so
+  // plainly, listing the commands (CLI11 would report "A subcommand is required").
+  if (argc == 1 || (argv[1][0] != '-' &&
+                    app.get_subcommands([&](CLI::App* sub) { return sub->check_name(argv[1]); }).empty())) {
+    std::string names;
+    for (CLI::App* sub : app.get_subcommands([](CLI::App*) { return true; }))
+      if (!sub->get_group().empty()) names += (names.empty() ? "" : ", ") + sub->get_name();
+    std::cerr << "lumtrap: error: "
+              << (argc == 1 ? std::string("no command given")
+                            : "unknown command '" + lumtrap::shortened(argv[1]) + "'")
+              << "; allowed: " << names << " (lumtrap --help describes them)\n";
+    return 1;
+  }
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -10,7 +10,12 @@
 namespace lumtrap::cli {
 
 void add_output_options(CLI::App& cmd, OutputOptions& o) {
-  cmd.add_option("-o,--out", o.out, "result folder (default: results/<scene name>)");
+  cmd.add_option("-o,--out", o.out, "result folder (default: results/<scene name>)")
+      ->check(CLI::Validator(
+          [](std::string& text) -> std::string {
+            return text.empty() ? "an empty path; allowed: a path to a new folder, e.g. -o results/k7_recipe_a" : "";
+          },
+          "PATH"));
   cmd.add_flag("--overwrite", o.overwrite, "replace an existing result folder");
 }
 
@@ -19,12 +24,6 @@ std::filesystem::path result_folder(const OutputOptions& o, const Scene& scene, 
   std::string stem = scene.file.stem().string();
   if (kind != "run") stem += "-" + kind;
   return std::filesystem::path("results") / stem;
-}
-
-void refuse_existing(const std::filesystem::path& out, bool overwrite) {
-  if (std::filesystem::exists(out) && !overwrite)
-    throw std::runtime_error("result folder " + out.string() +
-                             " already exists; choose another --out or pass --overwrite to replace it");
 }
 
 void print_summary(const Results& r, const std::filesystem::path& out) {
@@ -42,11 +41,35 @@ void print_summary(const Results& r, const std::filesystem::path& out) {
 
 Progress::Progress(std::string label) : label_(std::move(label)), tty_(::isatty(2) == 1) {}
 
-Progress::~Progress() {
+Progress::~Progress() { finish(); }
+
+void Progress::finish() {
   if (tty_ && last_permille_ >= 0) std::cerr << "\n";
+  last_permille_ = -1;
+}
+
+void Progress::message(const std::string& line) {
+  const int shown = last_permille_;
+  finish();
+  std::cerr << line << "\n";
+  if (shown >= 0) {
+    std::cerr << fmt::format("\r{} {:5.1f} %", label_, shown / 10.0) << std::flush;
+    last_permille_ = shown;
+  }
 }
 
 void Progress::update(double fraction) {
+  const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count();
+  if (!time_noted_ && elapsed > 5 && fraction > 0 && fraction < 1) {
+    const double left_hours = elapsed * (1 - fraction) / fraction / 3600;
+    if (left_hours > 1) {
+      time_noted_ = true;
+      message(fmt::format("lumtrap: note: at the present speed this run needs about {:.0f} more hours; fewer "
+                          "photons (--photons, run.photons) make it shorter, and Ctrl-C stops it keeping the "
+                          "finished photons",
+                          left_hours));
+    }
+  }
   if (!tty_) return;
   const int pm = int(fraction * 1000.0);
   if (pm == last_permille_) return;

@@ -8,6 +8,10 @@
 #include "cli/commands.hpp"
 #include "cli/memory_limit.hpp"
 #include "cli/output.hpp"
+#include "cli/output_folder_lock.hpp"
+#include "cli/output_path_check.hpp"
+#include "io/finite_results.hpp"
+#include "io/stale_result_folders.hpp"
 #include "io/end_states.hpp"
 #include "io/result_writer.hpp"
 #include "io/scene_identity.hpp"
@@ -30,11 +34,16 @@ void add_planar_command(CLI::App& app) {
   cmd->callback([opts] {
     const Scene scene = parse_scene_file(opts->scene);
     const auto out = result_folder(*opts, scene, "planar");
-    refuse_existing(out, opts->overwrite);
+    check_output_folder(out, scene.file, opts->overwrite);
     Results r = planar_results(scene);
     r.summary.scene_hash = scene_identity(scene);
     r.summary.tool_version = LUMTRAP_VERSION;
     r.summary.warnings = scene_warnings(scene);
+    require_finite_results(r);
+    const OutputFolderLock lock(out);
+    const auto tidied = tidy_stale_result_folders(out);
+    for (const auto& note : tidied) std::cerr << "lumtrap: note: " << note << "\n";
+    if (!tidied.empty()) check_output_folder(out, scene.file, opts->overwrite);  // a result may have been put back
     write_result_folder(out, result_files(r, resolved_scene_toml(scene)), opts->overwrite);
     print_summary(r, out);
   });
@@ -86,6 +95,15 @@ void add_check_command(CLI::App& app) {
 void add_materials_command(CLI::App& app) {
   auto* cmd = app.add_subcommand("materials", "list the shipped optical-constant tables");
   cmd->callback([] {
+    const MaterialsLocation loc = locate_materials();
+    std::error_code ec;
+    if (!std::filesystem::is_directory(loc.dir, ec))
+      std::cerr << fmt::format("lumtrap: warning: the shipped materials folder {} ({}) is not a folder: only "
+                               "\"air\" is available{}\n",
+                               loc.dir.string(), loc.how,
+                               loc.how == "LUMTRAP_MATERIALS" ? "; unset LUMTRAP_MATERIALS or point it at the "
+                                                                "materials folder"
+                                                              : "");
     std::cout << fmt::format("{:<26} {:>14}  {}\n", "id", "range (nm)", "source");
     std::cout << fmt::format("{:<26} {:>14}  {}\n", "air", "any", "constant n = 1, k = 0");
     for (const auto& id : shipped_material_ids()) {

@@ -8,10 +8,12 @@
 #include <chrono>
 #include <cstdlib>
 #include <iostream>
+#include <limits>
 
 #include "cli/build_progress.hpp"
 #include "cli/commands.hpp"
 #include "cli/memory_limit.hpp"
+#include "cli/option_checks.hpp"
 #include "cli/output.hpp"
 #include "cli/stop_signal.hpp"
 #include "cli/thread_limit.hpp"
@@ -78,12 +80,12 @@ void add_run_options(CLI::App& cmd, RunOptions& o) {
   cmd.add_option("-j,--threads", o.threads,
                  "threads, 0 = all cores (default: SLURM_CPUS_PER_TASK when set, else all cores; results do not "
                  "depend on it)")
-      ->check(CLI::NonNegativeNumber);
+      ->check(whole_number_in(0, std::numeric_limits<int>::max(), "0 = all cores"));
   cmd.add_option("--checkpoint-every", o.checkpoint_seconds,
                  "seconds between checkpoints of a running variant (default 10)")
-      ->check(CLI::NonNegativeNumber);
+      ->check(number_at_least(0));
   cmd.add_option("--batch", o.batch, "photons per wavelength per batch (default 50000; results do not depend on it)")
-      ->check(CLI::PositiveNumber);
+      ->check(whole_number_in(1, std::int64_t(kMaxPhotonsPerWavelength)));
 }
 
 struct UnitTotals {
@@ -147,17 +149,17 @@ void add_plan(CLI::App& sweep) {
   cmd->add_option("-o,--out", o->out, "sweep folder to write")->required();
   cmd->add_option("--per-task", o->per_task,
                   "work units per array task (default: 1, or as many as the cluster's MaxArraySize needs)")
-      ->check(CLI::PositiveNumber);
+      ->check(whole_number_in(1, std::numeric_limits<std::int32_t>::max()));
   cmd->add_option("--throttle", o->requests.throttle, "run at most N array tasks at once (SLURM's %N)")
-      ->check(CLI::PositiveNumber);
+      ->check(whole_number_in(1, std::numeric_limits<std::int32_t>::max()));
   cmd->add_option("--cpus-per-task", o->requests.cpus_per_task, "CPUs per array task (default 1)")
-      ->check(CLI::PositiveNumber);
+      ->check(whole_number_in(1, std::numeric_limits<int>::max()));
   cmd->add_option("--time", o->requests.time, "time limit per array task, HH:MM:SS or D-HH:MM:SS (default 04:00:00)");
   cmd->add_option("--mem", o->requests.mem, "memory per array task, e.g. 500M, 2G (default 1G)");
   cmd->add_option("--partition", o->requests.partition, "SLURM partition (default: the cluster's default)");
   cmd->add_option("--split-photons", o->split,
                   "split every variant into K photon ranges, each its own work unit (default 1)")
-      ->check(CLI::PositiveNumber);
+      ->check(whole_number_in(1, std::numeric_limits<std::int32_t>::max()));
   cmd->add_flag("--lean", o->lean, "result folders without the angle maps (escape/rear angle CSV and EXR)");
   add_max_memory_option(*cmd, o->max_memory);
   cmd->callback([o] {
@@ -222,7 +224,7 @@ void add_task(CLI::App& sweep) {
   auto o = std::make_shared<RunOptions>();
   add_run_options(*cmd, *o);
   cmd->add_option("--index", o->index, "array task index (default: $SLURM_ARRAY_TASK_ID)")
-      ->check(CLI::NonNegativeNumber);
+      ->check(whole_number_in(0, std::numeric_limits<std::int64_t>::max()));
   cmd->add_option("--plan-id", o->plan_id,
                   "the plan the job script was written for (the scripts pass it; a re-planned folder refuses an "
                   "old script)");
@@ -392,7 +394,7 @@ void add_status(CLI::App& sweep) {
   cmd->add_flag("--json", o->json, "one JSON object on stdout, every variant that is not done listed");
   cmd->add_flag("--no-slurm", o->no_slurm, "do not ask SLURM (squeue, sacct, scontrol); the files only");
   cmd->add_option("--lines", o->lines, "at most this many lines of variants that are not done (default 20)")
-      ->check(CLI::PositiveNumber);
+      ->check(whole_number_in(1, std::numeric_limits<std::int32_t>::max()));
   cmd->callback([o] {
     const SweepFolder f = load_sweep_header(o->dir);
     const SweepStatus st = sweep_status(f, o->no_slurm ? SlurmSource{} : slurm_from_commands());

@@ -12,6 +12,9 @@
 #include "cli/commands.hpp"
 #include "cli/memory_limit.hpp"
 #include "cli/output.hpp"
+#include "cli/output_folder_lock.hpp"
+#include "cli/output_path_check.hpp"
+#include "io/stale_result_folders.hpp"
 #include "geometry/height_map.hpp"
 #include "geometry/relief_image.hpp"
 #include "geometry/texture_statistics.hpp"
@@ -85,7 +88,7 @@ void add_texture_command(CLI::App& app) {
                                            o->image_pixels, o->image_tiles, o->image_pixels * o->image_tiles));
     const Scene scene = parse_scene_file(o->scene);
     const auto out = result_folder(*o, scene, "texture");
-    refuse_existing(out, o->overwrite);
+    check_output_folder(out, scene.file, o->overwrite);
     const MemoryLimit memory = memory_limit(o->max_memory);
     const BuildCost cost = estimate_build(scene);
     check_build_cost(scene, cost, memory.bytes, memory.origin);
@@ -134,6 +137,10 @@ void add_texture_command(CLI::App& app) {
       std::cout << fmt::format("  heights: Sq {:.4g} um, Sa {:.4g} um, Sz {:.4g} um\n", s.sq_um, s.sa_um, s.sz_um);
       std::cout << fmt::format("  pyramids: {} ({:.4g} per mm2)\n", s.pyramids.size(), s.pyramids_per_mm2);
     }
+    const OutputFolderLock lock(out);
+    const auto tidied = tidy_stale_result_folders(out);
+    for (const auto& note : tidied) std::cerr << "lumtrap: note: " << note << "\n";
+    if (!tidied.empty()) check_output_folder(out, scene.file, o->overwrite);  // a result may have been put back
     write_result_folder(out, files, o->overwrite);
     std::cout << "(model geometry, not a measurement)\n";
     std::cout << "results in " << out.string() << "/\n";

@@ -12,7 +12,13 @@ std::string MaterialRef::describe() const {
 
 std::string Scene::where(const std::string& key) const {
   auto it = positions.find(key);
-  return it != positions.end() ? it->second : file.string();
+  if (it != positions.end()) return it->second;
+  // A value written as an inline table ({ n = 2, k = 0 }): where its first key stands.
+  std::string prefix = key;
+  prefix.push_back('.');
+  it = positions.lower_bound(prefix);
+  if (it != positions.end() && it->first.compare(0, prefix.size(), prefix) == 0) return it->second;
+  return file.string();
 }
 
 }  // namespace lumtrap

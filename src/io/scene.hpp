@@ -98,6 +98,12 @@ struct Wafer {
   ThicknessConvention thickness_convention = ThicknessConvention::mean;
 };
 
+/// Most photons per wavelength: 2^53, the largest count below which every
+/// integer is exact in a double (IEEE 754-2008 binary64), so that fractions
+/// count / photons are computed without rounding the counts.
+inline constexpr std::uint64_t kMaxPhotonsPerWavelength = std::uint64_t(1) << 53;
+inline constexpr const char* kMaxPhotonsReason = "2^53, the largest count a double holds exactly";
+
 struct RunSettings {
   std::uint64_t photons = 10000;      ///< per wavelength
   std::uint64_t seed = 1;
@@ -115,7 +121,8 @@ struct Scene {
   /// ("wafer.thickness", "front.films[0].thickness"); for messages of checks
   /// made after reading. Keys not written in the file are absent.
   std::map<std::string, std::string> positions;
-  /// Where a key stands ("FILE:LINE:COL"), or the file when it was not written.
+  /// Where a key stands ("FILE:LINE:COL"; for an inline table, where its
+  /// first key stands), or the file when it was not written.
   std::string where(const std::string& key) const;
   std::string name;                   ///< [scene] name, default: file stem
   MaterialRef ambient;                ///< medium above the front, default air n = 1

@@ -9,13 +9,16 @@
 #include <numbers>
 #include <climits>
 #include <cmath>
+#include <cerrno>
 #include <cstdint>
+#include <fstream>
 #include <sstream>
 #include <string_view>
 #include <utility>
 #include <vector>
 
 #include "io/height_map_file.hpp"
+#include "io/io_error.hpp"
 #include "io/scene_words.hpp"
 #include "io/toml_text.hpp"
 #include "io/units.hpp"
@@ -44,7 +47,7 @@ std::string join(const std::vector<std::string_view>& items, std::string_view se
 // Showing values in messages and writing them as TOML.
 
 /// The value of a node as it would read in TOML, for messages.
-std::string show(const toml::node& n) { return toml_value_text(n, 6); }
+std::string show(const toml::node& n) { return shortened(toml_value_text(n, 6)); }
 
 
 /// Levenshtein distance, for "did you mean" hints on unknown keys.
@@ -714,7 +717,10 @@ void SceneReader::read_run(const toml::table* t, RunSettings& run) {
              {"photons", "seed", "max_bounces", "randomize_lateral", "threads", "depth_histograms", "target_jg_error",
               "polarization"});
   if (const toml::node* n = tb.get("photons"))
-    run.photons = static_cast<std::uint64_t>(integer(*n, "run.photons", 1, INT64_MAX, "an integer >= 1 (per wavelength)"));
+    run.photons = static_cast<std::uint64_t>(
+        integer(*n, "run.photons", 1, std::int64_t(kMaxPhotonsPerWavelength),
+                fmt::format("an integer from 1 to {} per wavelength ({})", kMaxPhotonsPerWavelength,
+                            kMaxPhotonsReason)));
   if (const toml::node* n = tb.get("seed"))
     run.seed = static_cast<std::uint64_t>(integer(*n, "run.seed", 0, INT64_MAX, "an integer >= 0"));
   if (const toml::node* n = tb.get("max_bounces"))
@@ -821,6 +827,9 @@ toml::table read_scene_table(const fs::path& file) {
   if (!fs::is_regular_file(file, ec))
     throw SceneError(fmt::format("{}: cannot read the scene file: {}", file.string(),
                                  fs::exists(file, ec) ? "not a regular file" : "no such file"));
+  std::ifstream probe(file, std::ios::binary);
+  if (!probe) throw SceneError(fmt::format("cannot read {}: {}", file.string(), io_error_text(errno)));
+  probe.close();
   try {
     return toml::parse_file(file.string());
   } catch (const toml::parse_error& e) {

@@ -102,6 +102,18 @@ std::string toml_child_key(std::string_view path, std::string_view key) {
   return path.empty() ? std::string(key) : std::string(path) + "." + std::string(key);
 }
 
+std::string shortened(std::string_view text, std::size_t max) {
+  if (text.size() <= max) return std::string(text);
+  const auto continuation = [](char c) { return (static_cast<unsigned char>(c) & 0xC0) == 0x80; };
+  std::size_t head = max * 2 / 3, tail = text.size() - max / 4;
+  while (head > 0 && continuation(text[head])) --head;
+  while (tail < text.size() && continuation(text[tail])) ++tail;
+  return std::string(text.substr(0, head)) + "\u2026(" + std::to_string(text.size()) + " bytes)\u2026" +
+         std::string(text.substr(tail));
+}
+
+std::string message_excerpt(std::string_view text, std::size_t max) { return toml_quote(shortened(text, max)); }
+
 std::string quoted_word_list(const std::vector<std::string_view>& words) {
   std::string s;
   for (std::string_view w : words) s += (s.empty() ? "\"" : ", \"") + std::string(w) + "\"";

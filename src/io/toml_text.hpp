@@ -41,6 +41,14 @@ std::string_view toml_type_name(const toml::node& n);
 /// "path.key", or "key" at the top level.
 std::string toml_child_key(std::string_view path, std::string_view key);
 
+/// `text` shortened to about `max` bytes for a message: the middle replaced
+/// by "…(N bytes)…", cut at whole UTF-8 characters, so that a huge value is
+/// not echoed whole. Shorter texts are returned unchanged.
+std::string shortened(std::string_view text, std::size_t max = 80);
+
+/// shortened(text) quoted as a TOML string: "...".
+std::string message_excerpt(std::string_view text, std::size_t max = 80);
+
 /// "\"a\", \"b\", \"c\"" for lists of allowed words in messages.
 std::string quoted_word_list(const std::vector<std::string_view>& words);
 

@@ -1,5 +1,7 @@
 #include "io/units.hpp"
 
+#include "io/toml_text.hpp"
+
 #include <charconv>
 #include <cmath>
 #include <cstdio>
@@ -29,7 +31,7 @@ struct UnitFamily {
 
 std::string quoted(std::string_view text) {
   std::string s = "\"";
-  s += text;
+  s += shortened(text);
   s += '"';
   return s;
 }
@@ -54,6 +56,7 @@ double parse_in(std::string_view text, const UnitFamily& f) {
   if (q.problem == QuantityText::no_number)
     fail(text, "does not start with a number; write e.g. \"75 " + std::string(f.example) + "\"", f);
   if (q.problem == QuantityText::out_of_range) fail(text, "number out of range", f);
+  if (q.problem == QuantityText::not_finite) fail(text, "not a finite number", f);
   if (q.unit.empty())
     fail(text, "a bare number; write the unit: e.g. \"" + std::string(q.number_text) + " " + std::string(f.example) +
                    "\"",
@@ -136,8 +139,12 @@ QuantityText split_quantity(std::string_view text) {
     q.problem = QuantityText::no_number;
     return q;
   }
-  if (ec == std::errc::result_out_of_range || !std::isfinite(q.number)) {
+  if (ec == std::errc::result_out_of_range) {
     q.problem = QuantityText::out_of_range;
+    return q;
+  }
+  if (!std::isfinite(q.number)) {  // "nan", "inf", "infinity"
+    q.problem = QuantityText::not_finite;
     return q;
   }
   if (negative) q.number = -q.number;

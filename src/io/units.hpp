@@ -28,7 +28,7 @@ struct UnitError : std::runtime_error {
 /// spaces around either trimmed. The number is what std::from_chars reads in
 /// general format after an optional sign. The views point into the text.
 struct QuantityText {
-  enum Problem { none, empty, no_number, out_of_range } problem = none;
+  enum Problem { none, empty, no_number, out_of_range, not_finite } problem = none;
   double number = 0;
   std::string_view number_text;  ///< as written, sign included
   std::string_view unit;         ///< empty for a plain number

@@ -371,11 +371,18 @@ Material find_material(const std::string& id_or_path, const std::filesystem::pat
   if (!ref.empty()) {
     std::filesystem::path p(ref);
     if (p.is_relative() && !relative_to.empty()) p = relative_to / p;
-    if (std::filesystem::is_regular_file(p, ec)) {
+    const auto st = std::filesystem::status(p, ec);
+    if (std::filesystem::is_regular_file(st)) {
       Material m = load_material_file(p);
       m.name = ref;
       return m;
     }
+    if (std::filesystem::is_directory(st))
+      throw MaterialError(fmt::format("{} is a folder, not a table; allowed: a `wavelength_nm,n,k` CSV file", p.string()));
+    if (std::filesystem::exists(st))
+      throw MaterialError(fmt::format("{} is not a regular file (a pipe, device or socket); allowed: a "
+                                      "`wavelength_nm,n,k` CSV file",
+                                      p.string()));
   }
 
   std::vector<std::string> known = shipped_material_ids();
@@ -383,6 +390,8 @@ Material find_material(const std::string& id_or_path, const std::filesystem::pat
   std::string looked_in = fmt::format("no shipped table {}/{}.csv", dir.string(), ref);
   if (const MaterialsLocation loc = locate_materials(); loc.how.rfind("not found", 0) == 0)
     looked_in += fmt::format(" (the shipped materials folder was {}; set LUMTRAP_MATERIALS to it)", loc.how);
+  else if (loc.how == "LUMTRAP_MATERIALS" && !std::filesystem::is_directory(loc.dir, ec))
+    looked_in += fmt::format(" (LUMTRAP_MATERIALS = {} is not a folder)", loc.dir.string());
   if (!is_id(ref)) {
     std::filesystem::path p(ref);
     if (p.is_relative() && !relative_to.empty()) p = relative_to / p;

@@ -113,7 +113,22 @@ Spectrum load_spectrum_file(const std::filesystem::path& file) {
     throw SpectrumError(fmt::format("{}:{}: only one data row; a spectrum needs at least two",
                                     file.string(), t.line_of_row.front()));
   }
-  return spectrum_from_columns(file.string(), std::move(t.columns[0]), std::move(t.columns[1]));
+  Spectrum s = spectrum_from_columns(file.string(), std::move(t.columns[0]), std::move(t.columns[1]));
+  // Every photon flux, and its integral up to every row, must be a finite
+  // double: currents are sums of them.
+  const std::vector<double> phi = photon_flux(s);
+  double integral = 0;
+  for (std::size_t j = 0; j < phi.size(); ++j) {
+    if (j > 0) integral += 0.5 * (phi[j - 1] + phi[j]) * (s.wavelength_nm[j] - s.wavelength_nm[j - 1]);
+    if (!std::isfinite(phi[j]) || !std::isfinite(integral))
+      throw SpectrumError(fmt::format(
+          "{}:{}: irradiance_W_m2_nm = {:g} at {:g} nm: the photon flux {} is beyond the range of double "
+          "precision; allowed: irradiances of real light sources (the ASTM G173-03 spectra, 2003, stay below "
+          "2.2 W m^-2 nm^-1)",
+          file.string(), t.line_of_row[j], s.irradiance[j], s.wavelength_nm[j],
+          std::isfinite(phi[j]) ? "integrated up to this row" : "here"));
+  }
+  return s;
 }
 
 double integrated_irradiance(const Spectrum& s, double lo_nm, double hi_nm) {

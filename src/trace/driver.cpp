@@ -33,6 +33,9 @@ struct Driver {
   std::vector<WavelengthOptics> optics;  // built lazily, one per wavelength
   std::chrono::steady_clock::time_point last_save = std::chrono::steady_clock::now();
   std::uint64_t first = 0;  // index of the first photon of every wavelength (split runs)
+  std::uint64_t slice = 64;  // photons of the next slice, adapted to the measured speed
+  std::string checkpoint_problem;
+  int failed_saves = 0;
 
   // Builds the tables of wavelength i and of the next few (the wavelengths are
   // worked through in order), in parallel: a few thousand photons per
@@ -54,8 +57,38 @@ struct Driver {
     if (opt.checkpoint.empty()) return;
     const auto t = std::chrono::steady_clock::now();
     if (!now && std::chrono::duration<double>(t - last_save).count() < opt.checkpoint_seconds) return;
-    save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies}, run.layout);
     last_save = t;
+    try {
+      save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies}, run.layout);
+    } catch (const std::exception& e) {
+      // The run goes on: only the ability to resume is lost meanwhile.
+      if (opt.warn && (failed_saves == 0 || checkpoint_problem != e.what()))
+        opt.warn(fmt::format("checkpoint not written ({}); the run goes on, but an interruption now would lose "
+                             "the photons traced since the last checkpoint",
+                             e.what()));
+      checkpoint_problem = e.what();
+      ++failed_saves;
+      return;
+    }
+    if (failed_saves > 0 && opt.warn)
+      opt.warn(fmt::format("checkpoint {} written again (after {} failed attempts)", opt.checkpoint.string(),
+                           failed_saves));
+    failed_saves = 0;
+    checkpoint_problem.clear();
+  }
+
+  // Photons of the next slice: about opt.slice_seconds at the speed of the
+  // last one, at most opt.batch, at least a few.
+  void adapt_slice(std::uint64_t traced, double seconds) {
+    constexpr std::uint64_t kFewest = 8;
+    const std::uint64_t most = std::max<std::uint64_t>(opt.batch, kFewest);
+    if (seconds <= 0 || traced == 0) {
+      slice = std::min(most, slice * 2);
+      return;
+    }
+    const double aimed = double(traced) * opt.slice_seconds / seconds;
+    const double capped = std::min(aimed, 2.0 * double(slice));  // grow gently, shrink at once
+    slice = std::clamp<std::uint64_t>(std::uint64_t(std::max(capped, 1.0)), kFewest, most);
   }
 
   // Brings wavelength i up to `target` photons (counted from `first`) in
@@ -66,9 +99,12 @@ struct Driver {
         save(true);
         return false;
       }
+      const WavelengthOptics& optics = optics_of(i);
       const std::uint64_t begin = tallies[i].photons;
-      const std::uint64_t end = std::min(target, begin + opt.batch);
-      tallies[i] += trace_wavelength(run, optics_of(i), i, first + begin, first + end);
+      const std::uint64_t end = std::min(target, begin + slice);
+      const auto t0 = std::chrono::steady_clock::now();
+      tallies[i] += trace_wavelength(run, optics, i, first + begin, first + end);
+      adapt_slice(end - begin, std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count());
       save(false);
       if (opt.progress && total_work > 0)
         opt.progress(std::min(1.0, (done_before + double(tallies[i].photons)) / total_work));
@@ -154,6 +190,7 @@ DriveResult drive_run(const PreparedRun& run, const DriveOptions& opt) {
   d.first = opt.first_photon;
 
   const bool finished = target <= 0 ? d.fixed(last - opt.first_photon) : d.precision(cap, target);
+  out.checkpoint_problem = d.checkpoint_problem;
   if (!finished) {  // stopped: the checkpoint holds the work done
     out.tallies = std::move(d.tallies);
     return out;

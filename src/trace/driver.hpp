@@ -1,10 +1,17 @@
 #pragma once
-// Drives a prepared run over its wavelengths in batches of photons:
-// checkpoints between batches every few seconds and when stopped (resuming
+// Drives a prepared run over its wavelengths in slices of photons:
+// checkpoints between slices every few seconds and when stopped (resuming
 // after an interruption, even a SIGKILL, gives the same final numbers: the
 // photons after the last checkpoint are traced again, identically), reports
 // progress, and in precision mode allocates photons
 // over wavelengths until the standard error of J_G meets the target.
+//
+// A slice is a contiguous photon range [begin, end) of one wavelength, sized
+// from the measured speed so that it takes about `slice_seconds` (never more
+// than `batch` photons): a stop request is therefore seen within about that
+// time whatever the scene, and the tallies always hold whole photon ranges
+// counted from the first photon, so a resumed run adds exactly the photons
+// that are missing (photon i's random numbers depend on i only).
 #include <atomic>
 #include <cstdint>
 #include <filesystem>
@@ -19,10 +26,14 @@ namespace lumtrap {
 struct DriveOptions {
   std::filesystem::path checkpoint;      ///< empty: no checkpoints
   std::string scene_hash;                ///< stored in and checked against the checkpoint
-  std::uint64_t batch = 50000;           ///< photons per wavelength per batch
+  std::uint64_t batch = 50000;           ///< most photons per wavelength in one slice
+  double slice_seconds = 0.25;           ///< aimed duration of a slice (how soon a stop request is seen)
   double checkpoint_seconds = 10.0;      ///< write the checkpoint at most this often (and when stopping)
-  std::function<void(double done_fraction)> progress;  ///< called between batches (may be empty)
-  const std::atomic<bool>* stop = nullptr;  ///< set asynchronously to stop after the current batch
+  std::function<void(double done_fraction)> progress;  ///< called between slices (may be empty)
+  const std::atomic<bool>* stop = nullptr;  ///< set asynchronously to stop after the current slice
+  /// Problems the run survives (a checkpoint that cannot be written, e.g. on
+  /// a full disk), one line each; may be empty.
+  std::function<void(const std::string& message)> warn;
   /// Photon range of every wavelength, for a run split over processes or
   /// cluster jobs (fixed mode only): photons [first_photon, last_photon),
   /// last_photon = 0 meaning run.photons. The tallies of the parts of a
@@ -35,6 +46,7 @@ struct DriveOptions {
 struct DriveResult {
   std::vector<WavelengthTally> tallies;
   bool complete = false;   ///< false when stopped early (checkpoint holds the work done)
+  std::string checkpoint_problem;  ///< why the last checkpoint could not be written; empty when it was
   double jg_sigma_mA_cm2 = 0;
 };
 

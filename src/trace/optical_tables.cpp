@@ -1,6 +1,10 @@
 #include "trace/optical_tables.hpp"
 
+#include <fmt/format.h>
 #include <tbb/parallel_for.h>
+
+#include <cmath>
+#include <stdexcept>
 
 namespace lumtrap {
 
@@ -25,6 +29,40 @@ std::vector<ThinLayer> layers_at(const std::vector<Film>& films, const std::vect
   for (std::size_t i = 0; i < films.size(); ++i)
     layers.push_back({mats[i].index_at(wavelength_nm), films[i].thickness_nm * thickness_scale});
   return layers;
+}
+
+/// The scene keys and values of the media of a surface's stack, for messages.
+std::string stack_media(const Scene& scene, bool front) {
+  const auto item = [&](const std::string& key, const MaterialRef& m) {
+    return fmt::format("{} = {} ({})", key, m.describe(), scene.where(key));
+  };
+  std::string s = front ? item("ambient.material", scene.ambient) : item("wafer.material", scene.wafer.material);
+  const auto& films = front ? scene.front.films : scene.rear.films;
+  for (std::size_t i = 0; i < films.size(); ++i)
+    s += "; " + item(fmt::format("{}.films[{}].material", front ? "front" : "rear", i), films[i].material);
+  s += "; " + (front ? item("wafer.material", scene.wafer.material) : item("rear.medium", scene.rear_medium));
+  return s;
+}
+
+/// Throws when a table holds a non-finite number.
+void require_finite_table(const StackTable& t, const Scene& scene, bool front, double lambda) {
+  const auto power_ok = [](double p) { return std::isfinite(p); };
+  const auto amp_ok = [](cplx a) { return std::isfinite(a.real()) && std::isfinite(a.imag()); };
+  const auto bad = [&](const InterfaceResponse& r) {
+    return !(power_ok(r.Rs) && power_ok(r.Rp) && power_ok(r.Ts) && power_ok(r.Tp) && amp_ok(r.rs) &&
+             amp_ok(r.rp) && amp_ok(r.ts) && amp_ok(r.tp));
+  };
+  bool ok = true;
+  for (const auto& r : t.response) ok = ok && !bad(r);
+  for (const auto& r : t.critical_response) ok = ok && !bad(r);
+  for (const auto* v : {&t.layer_As, &t.layer_Ap, &t.critical_As, &t.critical_Ap})
+    for (double a : *v) ok = ok && power_ok(a);
+  if (ok) return;
+  throw std::runtime_error(fmt::format(
+      "the {} film stack gives no finite reflectance and transmittance at {} nm (optical constants or thicknesses "
+      "far beyond physical values overflow the Fresnel and thin-film formulas); its media: {}; allowed: optical "
+      "constants n, k and thicknesses of real materials",
+      front ? "front" : "rear", fmt::format("{:g}", lambda), stack_media(scene, front)));
 }
 
 double thickness_scale(Conformality c, double tilt_cos) {
@@ -99,7 +137,29 @@ WavelengthOptics make_wavelength_optics(const Scene& scene, const SceneMaterials
   tbb::parallel_for(std::size_t(0), jobs.size(), [&](std::size_t j) {
     *jobs[j].table = tabulate_stack(jobs[j].stack, lambda, jobs[j].side, samples);
   });
+  const std::size_t front_jobs = 2 * front_tilt_cos.size();
+  for (std::size_t j = 0; j < jobs.size(); ++j) require_finite_table(*jobs[j].table, scene, j < front_jobs, lambda);
+  if (!std::isfinite(o.alpha_per_um) || !std::isfinite(o.n_bulk) || !std::isfinite(o.front.n_outside) ||
+      !std::isfinite(o.rear.n_outside))
+    throw std::runtime_error(fmt::format("the optical constants at {} nm are not finite numbers; media: {}; {}",
+                                         fmt::format("{:g}", lambda), stack_media(scene, true),
+                                         stack_media(scene, false)));
   return o;
+}
+
+void check_optics_finite(const Scene& scene, const SceneMaterials& materials,
+                         const std::vector<double>& front_tilt_cos, const std::vector<double>& rear_tilt_cos) {
+  const auto& wl = scene.illumination.wavelengths_nm;
+  std::vector<std::string> problems(wl.size());
+  tbb::parallel_for(std::size_t(0), wl.size(), [&](std::size_t i) {
+    try {
+      (void)make_wavelength_optics(scene, materials, front_tilt_cos, rear_tilt_cos, wl[i], 9);
+    } catch (const std::exception& e) {
+      problems[i] = e.what();
+    }
+  });
+  for (const auto& p : problems)  // the first wavelength's problem, whatever the thread order
+    if (!p.empty()) throw std::runtime_error(p);
 }
 
 }  // namespace lumtrap

@@ -49,4 +49,12 @@ WavelengthOptics make_wavelength_optics(const Scene& scene, const SceneMaterials
                                         const std::vector<double>& rear_tilt_cos,
                                         double wavelength_nm, int table_samples = 1025);
 
+/// Builds small tables (a few angles) at every run wavelength and throws
+/// std::runtime_error when a response is not finite (optical constants or thicknesses far beyond physical values,
+/// e.g. n = 1e200, overflow the Fresnel and film formulas), naming the
+/// surface, the wavelength and the scene keys of its media. Called before
+/// any tracing; make_wavelength_optics makes the same check on every table.
+void check_optics_finite(const Scene& scene, const SceneMaterials& materials,
+                         const std::vector<double>& front_tilt_cos, const std::vector<double>& rear_tilt_cos);
+
 }  // namespace lumtrap

@@ -27,6 +27,7 @@ std::optional<std::string> planar_solver_problem(const Scene& sc) {
 Results planar_results(const Scene& sc) {
   if (auto problem = planar_solver_problem(sc)) throw std::invalid_argument(*problem);
   const SceneMaterials mats = load_scene_materials(sc);
+  check_optics_finite(sc, mats, {1.0}, {1.0});
   const Polarization pol = sc.illumination.polarization == PolarizationKind::s   ? Polarization::s
                            : sc.illumination.polarization == PolarizationKind::p ? Polarization::p
                                                                                  : Polarization::unpolarized;

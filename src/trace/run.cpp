@@ -40,6 +40,7 @@ std::unique_ptr<PreparedRun> prepare_run(const Scene& scene, std::uint64_t varia
   run->scene = scene;
   run->variant = variant;
   run->materials = load_scene_materials(scene);
+  check_optics_finite(scene, run->materials, {1.0}, {1.0});  // before the (possibly long) mesh build
   // The Embree scenes are built before the per-triangle normals exist: on a
   // large tile the BVH build's working memory then never coexists with them.
   run->model = build_wafer_geometry(scene);

@@ -397,7 +397,7 @@ TEST(SceneErrors, WavelengthsNotIncreasing) {
 
 TEST(SceneErrors, WrongTypesAndIntegers) {
   expect_error("photons_float.toml", "[run]\nphotons = 2e4\n", 2, "run.photons", "value 20000.0", "integer");
-  expect_error("photons_zero.toml", "[run]\nphotons = 0\n", 2, "run.photons", "value 0", "an integer >= 1");
+  expect_error("photons_zero.toml", "[run]\nphotons = 0\n", 2, "run.photons", "value 0", "an integer from 1 to 9007199254740992");
   expect_error("bool.toml", "[run]\nrandomize_lateral = \"yes\"\n", 2, "run.randomize_lateral", "value \"yes\"",
                "allowed: true, false");
   expect_error("section_type.toml", "front = 3\n", 1, "front", "value 3", "a table [front]");
