@@ -4,7 +4,8 @@
 #     AddressSanitizer and UndefinedBehaviorSanitizer in build-check/, any
 #     report fails the run;
 #  2. each libFuzzer target in tests/fuzz/ for FUZZ_SECONDS (default 60)
-#     from seed corpora of the shipped scenes, materials and formula files
+#     from seed corpora of the shipped scenes, the catalogue's scenes
+#     (tests/cli/catalogue/cases.tsv), materials and formula files
 #     (plus the inputs in tests/fuzz/corpus/ when present); a crash, a leak,
 #     a sanitizer report or an input taking over 10 s fails the run, and the
 #     input is kept in build-check/fuzz-findings/.
@@ -60,6 +61,16 @@ for exe in "$B"/fuzz_*; do
       cp "$f" "$corpus/seed-$(basename "$f")"
     fi
   done
+  if [ "$name" = fuzz_scene_reader ]; then   # the scenes of the catalogue of bad inputs
+    n=0
+    while IFS=$'\t' read -r id _ _ setup _; do
+      case "$id$setup" in \#*) continue ;; esac
+      case "$setup" in "scene '"*) ;; *) continue ;; esac
+      body=${setup#scene \'}; body=${body%%\'*}
+      printf '%b' "$body" > "$corpus/catalogue-$id.toml"; n=$((n + 1))
+    done < tests/cli/catalogue/cases.tsv
+    echo "fuzz $name: seeds from scenes/, tests/regression/scenes/ and $n catalogue scenes" >&2
+  fi
   [ -d "tests/fuzz/corpus/$name" ] && cp tests/fuzz/corpus/"$name"/* "$corpus/" 2>/dev/null || true
   log="$B/fuzz-findings/$name.log"
   if "$exe" -max_total_time="$FUZZ_SECONDS" -timeout=10 -rss_limit_mb=4096 -print_final_stats=1 \
