@@ -33,6 +33,10 @@ std::string tally_set_json(const TallySet& set, const TallyLayout& layout) {
   for (const auto& b : layout.bins.bins) j["end_states"].push_back(b.name);
   j["tallies"] = nlohmann::json::array();
   for (const auto& t : set.tallies) j["tallies"].push_back(tally_json(t));
+  if (!set.round_goals.empty()) {
+    j["precision_round"] = set.round;
+    j["precision_round_goals"] = set.round_goals;
+  }
   return j.dump() + "\n";
 }
 
@@ -62,6 +66,13 @@ TallySet tally_set_from_json(const std::string& text, const TallyLayout& layout,
         t.*member = std::move(got);
       }
       set.tallies.push_back(std::move(t));
+    }
+    if (j.contains("precision_round_goals")) {
+      set.round = j.at("precision_round").get<int>();
+      set.round_goals = j.at("precision_round_goals").get<std::vector<std::uint64_t>>();
+      if (set.round_goals.size() != set.tallies.size())
+        throw std::runtime_error(fmt::format("{}: 'precision_round_goals' has {} entries for {} wavelengths", file,
+                                             set.round_goals.size(), set.tallies.size()));
     }
   } catch (const nlohmann::json::exception& e) {
     throw std::runtime_error(fmt::format("{}: not a lumtrap tally file ({})", file, e.what()));

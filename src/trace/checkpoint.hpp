@@ -17,6 +17,12 @@ struct TallySet {
   std::string scene_hash;                ///< the resolved scene's hash: refuses to mix runs
   std::string tool_version;
   std::vector<WavelengthTally> tallies;  ///< one per run wavelength
+  /// Precision mode: the photons per wavelength the current allocation round
+  /// aims at (empty otherwise). A run resumed in the middle of a round first
+  /// finishes that round, so it makes the same allocation decisions as an
+  /// uninterrupted run and ends with bit-identical tallies.
+  std::vector<std::uint64_t> round_goals;
+  int round = 0;  ///< precision mode: index of that round (0 = the pilot)
 };
 
 /// JSON text of the tallies, with the layout's end-state names (checked on reading).

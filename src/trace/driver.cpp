@@ -24,6 +24,22 @@ double jg_sigma(const PreparedRun& run, const std::vector<WavelengthTally>& tall
   return current_mA_per_cm2(std::sqrt(var));
 }
 
+std::vector<std::uint64_t> precision_pilot(const PreparedRun& run, std::uint64_t cap, double target) {
+  const std::size_t nw = run.band_weight.size();
+  double sum_w = 0;
+  for (double w : run.band_weight) sum_w += w;
+  // Photons that meet the target whatever the p_i (s_i <= 1/2), allocated ∝ w_i.
+  const double sigma_flux = target / current_mA_per_cm2(1.0);
+  const double n_bound = (0.5 * sum_w) * (0.5 * sum_w) / (sigma_flux * sigma_flux);
+  std::vector<std::uint64_t> pilot(nw);
+  for (std::size_t i = 0; i < nw; ++i) {
+    const double share = sum_w > 0 ? kPilotFraction * n_bound * run.band_weight[i] / sum_w : 0.0;
+    const double n = std::clamp(std::ceil(share), double(kFewestPilotPhotons), double(kMostPilotPhotons));
+    pilot[i] = std::min(cap, std::uint64_t(n));
+  }
+  return pilot;
+}
+
 namespace {
 
 struct Driver {
@@ -36,6 +52,10 @@ struct Driver {
   std::uint64_t slice = 64;  // photons of the next slice, adapted to the measured speed
   std::string checkpoint_problem;
   int failed_saves = 0;
+  std::vector<std::uint64_t> round_goals;  // precision mode: photons per wavelength of this round
+  int round = 0;                           // precision mode: 0 = the pilot
+  double reported = 0;                     // progress already reported (never goes back)
+  static constexpr int kMostRounds = 50;
 
   // Builds the tables of wavelength i and of the next few (the wavelengths are
   // worked through in order), in parallel: a few thousand photons per
@@ -59,7 +79,8 @@ struct Driver {
     if (!now && std::chrono::duration<double>(t - last_save).count() < opt.checkpoint_seconds) return;
     last_save = t;
     try {
-      save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies}, run.layout);
+      save_tally_set(opt.checkpoint, TallySet{opt.scene_hash, LUMTRAP_VERSION, tallies, round_goals, round},
+                     run.layout);
     } catch (const std::exception& e) {
       // The run goes on: only the ability to resume is lost meanwhile.
       if (opt.warn && (failed_saves == 0 || checkpoint_problem != e.what()))
@@ -106,8 +127,11 @@ struct Driver {
       tallies[i] += trace_wavelength(run, optics, i, first + begin, first + end);
       adapt_slice(end - begin, std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count());
       save(false);
-      if (opt.progress && total_work > 0)
-        opt.progress(std::min(1.0, (done_before + double(tallies[i].photons)) / total_work));
+      if (opt.progress && total_work > 0) {
+        // (in precision mode a later round may raise the total: the bar waits)
+        reported = std::max(reported, std::min(1.0, (done_before + double(tallies[i].photons)) / total_work));
+        opt.progress(reported);
+      }
     }
     return true;
   }
@@ -123,15 +147,19 @@ struct Driver {
     return true;
   }
 
-  // Precision mode: a pilot, then Neyman allocation rounds until σ(J_G) <= target.
+  // Precision mode: a pilot sized from the target, then Neyman allocation
+  // rounds until σ(J_G) <= target. Each round's goals are kept in the
+  // checkpoint, so a resumed run finishes the round it was in and then
+  // decides exactly as an uninterrupted run would.
   bool precision(std::uint64_t cap, double target) {
     const std::size_t nw = tallies.size();
-    const std::uint64_t pilot = std::min<std::uint64_t>(cap, 2000);
-    for (std::size_t i = 0; i < nw; ++i)
-      if (!top_up(i, std::max(pilot, tallies[i].photons), 0, 0)) return false;
-    for (int round = 0; round < 50; ++round) {
-      const double sigma = jg_sigma(run, tallies);
-      if (sigma <= target) break;
+    if (round_goals.empty()) {
+      round = 0;
+      round_goals = precision_pilot(run, cap, target);
+    }
+    for (;;) {
+      if (!reach_round_goals()) return false;
+      if (round >= kMostRounds || jg_sigma(run, tallies) <= target) break;
       // Total photons needed if allocated optimally: (Σ w_i s_i)^2 / σ_t^2,
       // with s_i = sqrt(p_i (1 - p_i)) (floored so no wavelength starves).
       std::vector<double> ws(nw);
@@ -146,16 +174,31 @@ struct Driver {
       }
       const double sigma_flux = target / current_mA_per_cm2(1.0);  // target in photons m^-2 s^-1
       const double n_total = sum_ws * sum_ws / (sigma_flux * sigma_flux) * 1.05;
+      std::vector<std::uint64_t> goals(nw);
       bool grew = false;
       for (std::size_t i = 0; i < nw; ++i) {
         const auto want = std::uint64_t(std::ceil(n_total * ws[i] / sum_ws));
-        const std::uint64_t goal = std::min(cap, want);
-        if (goal > tallies[i].photons) {
-          grew = true;
-          if (!top_up(i, goal, 0, 0)) return false;
-        }
+        goals[i] = std::max(tallies[i].photons, std::min(cap, want));
+        grew = grew || goals[i] > tallies[i].photons;
       }
       if (!grew) break;  // capped everywhere
+      round_goals = std::move(goals);
+      ++round;
+    }
+    return true;
+  }
+
+  // Brings every wavelength up to this round's goal; false if stopped.
+  bool reach_round_goals() {
+    double total = 0, done = 0;
+    for (std::size_t i = 0; i < tallies.size(); ++i) {
+      total += double(std::max(round_goals[i], tallies[i].photons));
+      done += double(tallies[i].photons);
+    }
+    for (std::size_t i = 0; i < tallies.size(); ++i) {
+      const double before = done - double(tallies[i].photons);
+      if (!top_up(i, round_goals[i], before, total)) return false;
+      done = before + double(tallies[i].photons);
     }
     return true;
   }
@@ -173,6 +216,8 @@ DriveResult drive_run(const PreparedRun& run, const DriveOptions& opt) {
             "checkpoint {} belongs to another scene (hash {}, this scene {}); remove it to start afresh",
             opt.checkpoint.string(), saved->scene_hash, opt.scene_hash));
       d.tallies = std::move(saved->tallies);
+      d.round_goals = std::move(saved->round_goals);
+      d.round = saved->round;
     }
   }
   const std::uint64_t cap = run.scene.run.photons;
