@@ -22,6 +22,7 @@ int main(int argc, char** argv) {
   lumtrap::cli::add_exr_channels_command(app);
   lumtrap::cli::add_texture_command(app);
   lumtrap::cli::add_verify_command(app);
+  lumtrap::cli::add_fit_command(app);
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
