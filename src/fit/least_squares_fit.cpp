@@ -143,16 +143,24 @@ struct Objective : Eigen::DenseFunctor<double> {
 
   double step(int j) const { return (setup.exact ? 1e-6 : 1e-2) * (par(j).upper - par(j).lower); }
 
-  /// dr/dx by forward differences (backward at the upper bound).
+  /// (r(x + h e_j) - r(x)) / h, h negated when x + h passes the upper bound.
+  Eigen::VectorXd difference(const std::vector<double>& x, const Eigen::VectorXd& r0, int j, double h) {
+    std::vector<double> xh = x;
+    if (xh[std::size_t(j)] + h > par(j).upper) h = -h;
+    xh[std::size_t(j)] += h;
+    return (residuals(xh) - r0) / h;
+  }
+
+  /// dr/dx by forward differences. A traced curve is piecewise constant on
+  /// the scale where no photon changes its fate (common random numbers), so
+  /// a column that comes out exactly zero is tried again with a 10 times
+  /// larger step.
   Eigen::MatrixXd jacobian_x(const std::vector<double>& x) {
     const Eigen::VectorXd r0 = residuals(x);
     Eigen::MatrixXd J(values(), inputs());
     for (int j = 0; j < inputs(); ++j) {
-      std::vector<double> xh = x;
-      double h = step(j);
-      if (xh[std::size_t(j)] + h > par(j).upper) h = -h;
-      xh[std::size_t(j)] += h;
-      J.col(j) = (residuals(xh) - r0) / h;
+      J.col(j) = difference(x, r0, j, step(j));
+      if (!setup.exact && J.col(j).isZero(0.0)) J.col(j) = difference(x, r0, j, 10 * step(j));
     }
     return J;
   }
@@ -208,11 +216,17 @@ FitResult fit_model(const FitSetup& setup, const FitProgress& progress) {
   const Eigen::MatrixXd J0 = obj.jacobian_x(x0);
   for (std::size_t j = 0; j < p; ++j) {
     const auto& par = setup.spec.parameters[j];
-    if (J0.col(Eigen::Index(j)).cwiseAbs().maxCoeff() * std::abs(obj.step(int(j))) <= 1e-12)
+    bool flat = J0.col(Eigen::Index(j)).cwiseAbs().maxCoeff() * std::abs(obj.step(int(j))) <= 1e-12;
+    if (flat && !setup.exact) {  // a traced curve: also compare with the farther bound
+      const double far = x0[j] - par.lower > par.upper - x0[j] ? par.lower : par.upper;
+      flat = obj.difference(x0, obj.residuals(x0), int(j), far - x0[j]).isZero(0.0);
+    }
+    if (flat)
       throw FitError(fmt::format(
-          "{}: key 'fit.parameters.\"{}\"': the model curve does not change when {} moves from {} by {} (a flat "
+          "{}: key 'fit.parameters.\"{}\"': the model curve does not change when {} moves from {} by {}{}{} (a flat "
           "direction: the measured curve cannot fix it); allowed: parameters the compared curve depends on",
-          par.where, par.key, par.key, parameter_value_toml(par, x0[j]), format_number(obj.step(int(j)))));
+          par.where, par.key, par.key, parameter_value_toml(par, x0[j]), format_number(obj.step(int(j))),
+          par.unit.empty() ? "" : " ", par.unit, setup.exact ? "" : " or to its farther bound"));
   }
 
   Eigen::VectorXd u(static_cast<Eigen::Index>(p));

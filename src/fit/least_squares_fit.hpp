@@ -24,6 +24,11 @@
 // Jacobian: forward differences in x with a step of 1e-6 (exact solver) or
 // 1e-2 (ray tracer) of each parameter's range, at the scene's fixed seed
 // (common random numbers: every evaluation traces the same photon streams).
+// A traced curve is then smooth on the scale of the parameter ranges but
+// piecewise constant on the scale where no photon changes its fate, so a
+// column that is exactly zero is retried with a 10 times larger step, and
+// a parameter is refused as a flat direction only when the curve does not
+// change up to its farther bound either.
 // Covariance C = (JᵀJ)⁻¹ (× χ²/(m - p) when unweighted) at the best fit,
 // with the weights recomputed there; standard errors sqrt(C_jj),
 // correlation C_jk / sqrt(C_jj C_kk) (common practice; W. H. Press et al.,

@@ -4,8 +4,8 @@
 // (trace/planar_run.hpp; sigma 0), otherwise the ray tracer with the
 // scene's seed and photons (random streams keyed by seed, wavelength and
 // photon only, so two scenes that differ a little trace nearly the same
-// photon histories: the curve is a repeatable, nearly smooth function of a
-// scene parameter at a fixed seed). Model estimates, not measurements.
+// photon histories: the curve is a repeatable function of a scene parameter
+// at a fixed seed, smooth but for steps of single photons changing fate). Model estimates, not measurements.
 //
 // total_reflectance = reflected_front + escaped_front; first surface =
 // reflected_front. Standard errors of a traced sum of end states:
