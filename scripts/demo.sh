@@ -3,7 +3,8 @@
 # fictional cell line) compares three etch recipes and its polished
 # reference, plus the ideal Lambertian limit, and a small sweep (front SiNx
 # thickness x rear metal) and an etch study (three recipes that differ in tip
-# rounding, facet angle and flat fraction); then draws every result with `lumtrap plot` and
+# rounding, facet angle and flat fraction) and a fit of two film thicknesses
+# to a synthetic reflectance curve; then draws every result with `lumtrap plot` and
 # writes a self-contained HTML report of each (`lumtrap report`). Results go
 # to results/demo/.
 set -euo pipefail
@@ -30,6 +31,9 @@ echo "== sweep: scenes/k7_sinx_rear_sweep.toml (front SiNx 65-85 nm x Al/Ag rear
 "$BIN" sweep plan scenes/k7_sinx_rear_sweep.toml --out "$SWEEP" > /dev/null
 "$BIN" sweep local "$SWEEP"
 "$BIN" sweep merge "$SWEEP"
+echo "== fit: scenes/k7_fit_recipe_b.toml to its synthetic measured curve (2 film thicknesses, a few seconds)"
+"$BIN" fit scenes/k7_fit_recipe_b.toml --measured scenes/k7_fit_recipe_b_measured.csv \
+  -o "$OUT/k7_fit_recipe_b-fit" --overwrite 2> /dev/null
 FOLDERS=("$OUT/k7_polished_reference-planar" "$OUT/k7_polished_reference" "$OUT/k7_recipe_a_coarse"
          "$OUT/k7_recipe_b_standard" "$OUT/k7_recipe_c_fine" "$OUT/lambertian_limit_180um")
 echo "== plots (PNG + SVG) and reports (HTML) of every result and of the sweep"

@@ -17,6 +17,7 @@ void add_report_command(CLI::App& app);    // lumtrap report FOLDER...
 void add_exr_channels_command(CLI::App& app);  // lumtrap exr-channels FILE (hidden helper of plot)
 void add_texture_command(CLI::App& app);   // lumtrap texture SCENE
 void add_verify_command(CLI::App& app);    // lumtrap verify
+void add_fit_command(CLI::App& app);       // lumtrap fit SCENE --measured R.csv
 
 /// Thrown by commands to end with a given exit code after a message.
 struct ExitCode {

@@ -23,6 +23,7 @@ int main(int argc, char** argv) {
   lumtrap::cli::add_exr_channels_command(app);
   lumtrap::cli::add_texture_command(app);
   lumtrap::cli::add_verify_command(app);
+  lumtrap::cli::add_fit_command(app);
   // No command, or a first word that is no option and no command: say so
   // plainly, listing the commands (CLI11 would report "A subcommand is required").
   if (argc == 1 || (argv[1][0] != '-' &&

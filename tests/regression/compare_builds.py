@@ -68,7 +68,8 @@ def scenes():
         for name in sorted(os.listdir(d)):
             path = os.path.join(d, name)
             # a sweep file is run by the sweep commands, not by `run`
-            if name.endswith(".toml") and not re.search(r"^\[sweep", open(path).read(), re.M):
+            # (a fit file, by `lumtrap fit`)
+            if name.endswith(".toml") and not re.search(r"^\[(sweep|fit)", open(path).read(), re.M):
                 out.append(path)
     return out
 
