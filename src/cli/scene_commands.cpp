@@ -13,6 +13,7 @@
 #include "io/finite_results.hpp"
 #include "io/stale_result_folders.hpp"
 #include "io/end_states.hpp"
+#include "io/formula_material_file.hpp"
 #include "io/result_writer.hpp"
 #include "io/scene_identity.hpp"
 #include "io/scene_reader.hpp"
@@ -92,8 +93,24 @@ void add_check_command(CLI::App& app) {
   });
 }
 
+namespace {
+
+/// The shipped dispersion formulas (materials/formulas/*.toml), after the tables.
+void list_formula_materials() {
+  install_formula_file_reader();
+  std::cout << fmt::format("\ndispersion formulas (materials/formulas; sampled every {:g} nm):\n",
+                           kFormulaSampleStepNm);
+  for (const auto& id : shipped_formula_ids()) {
+    const Material m = find_material(id);
+    std::cout << fmt::format("{:<26} {:>6g}-{:<7g}  {}\n", id, m.min_wavelength_nm(), m.max_wavelength_nm(),
+                             m.source.substr(0, 100));
+  }
+}
+
+}  // namespace
+
 void add_materials_command(CLI::App& app) {
-  auto* cmd = app.add_subcommand("materials", "list the shipped optical-constant tables");
+  auto* cmd = app.add_subcommand("materials", "list the shipped optical-constant tables and dispersion formulas");
   cmd->callback([] {
     const MaterialsLocation loc = locate_materials();
     std::error_code ec;
@@ -111,6 +128,7 @@ void add_materials_command(CLI::App& app) {
       std::cout << fmt::format("{:<26} {:>6g}-{:<7g}  {}\n", id, m.min_wavelength_nm(), m.max_wavelength_nm(),
                                m.source.substr(0, 100));
     }
+    list_formula_materials();
   });
 }
 

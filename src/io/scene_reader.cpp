@@ -19,6 +19,7 @@
 
 #include "io/height_map_file.hpp"
 #include "io/io_error.hpp"
+#include "io/formula_material_file.hpp"
 #include "io/scene_words.hpp"
 #include "io/toml_text.hpp"
 #include "io/units.hpp"
@@ -91,6 +92,7 @@ class SceneReader {
  public:
   SceneReader(const fs::path& file) : file_(file) {
     install_height_map_reader();  // texture = "height_map" reads its file while it is validated
+    install_formula_file_reader();  // material = a dispersion-formula file
     std::error_code ec;
     fs::path abs = file.empty() ? fs::current_path(ec) / "scene.toml" : fs::absolute(file, ec);
     dir_ = abs.lexically_normal().parent_path();
@@ -264,7 +266,8 @@ class SceneReader {
 MaterialRef SceneReader::material(const toml::node* n, const std::string& key, std::string_view fallback,
                                   const toml::table& parent) {
   const std::string allowed =
-      "a material id (e.g. \"si_green2008\"), \"air\", a path to a `wavelength_nm,n,k` CSV file, or a "
+      "a material id (e.g. \"si_green2008\" or a formula id as \"ito_1e20\"), \"air\", a path to a `wavelength_nm,n,k` CSV file or "
+      "to a dispersion-formula .toml file, or a "
       "constant index { n = 1.5, k = 0 }";
   if (!n) return material_from_text(std::string(fallback), key, nullptr, parent);
   if (auto* t = n->as_table()) {
@@ -298,8 +301,9 @@ MaterialRef SceneReader::material_from_text(const std::string& raw, const std::s
     fail_at(parent.source(), key, fmt::format("default material \"{}\": {}", text, e.what()));
   }
   std::error_code ec;
-  if (text == "air" || (is_bare_key(text) && fs::is_regular_file(materials_dir() / (text + ".csv"), ec))) {
-    ref.id_or_path = text;  // "air" (built-in n = 1, k = 0) or a shipped table: keep the id
+  if (text == "air" || (is_bare_key(text) && (fs::is_regular_file(materials_dir() / (text + ".csv"), ec) ||
+                                               fs::is_regular_file(materials_dir() / "formulas" / (text + ".toml"), ec)))) {
+    ref.id_or_path = text;  // "air" (built-in n = 1, k = 0) or a shipped table or formula: keep the id
   } else {
     fs::path p(text);
     if (p.is_relative()) p = dir_ / p;

@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <atomic>
 #include <charconv>
 #include <cmath>
 #include <cstdlib>
@@ -338,6 +339,39 @@ std::vector<std::string> shipped_material_ids() {
   return ids;
 }
 
+namespace {
+
+std::atomic<FormulaFileLoader> g_formula_loader{nullptr};
+
+bool is_formula_file(const std::filesystem::path& p) { return p.extension() == ".toml"; }
+
+Material load_table_or_formula(const std::filesystem::path& p) {
+  if (!is_formula_file(p)) return load_material_file(p);
+  const FormulaFileLoader loader = g_formula_loader.load();
+  if (!loader)
+    throw MaterialError(fmt::format("{}: dispersion-formula files are read through src/io, whose reader is "
+                                    "not installed in this program",
+                                    p.string()));
+  return loader(p);
+}
+
+}  // namespace
+
+void set_formula_file_loader(FormulaFileLoader loader) { g_formula_loader.store(loader); }
+
+std::vector<std::string> shipped_formula_ids() {
+  std::vector<std::string> ids;
+  std::error_code ec;
+  const std::filesystem::path dir = materials_dir() / "formulas";
+  for (std::filesystem::directory_iterator it(dir, ec), end; !ec && it != end; it.increment(ec)) {
+    const std::filesystem::path& p = it->path();
+    if (!is_formula_file(p) || !it->is_regular_file(ec)) continue;
+    ids.push_back(p.stem().string());
+  }
+  std::sort(ids.begin(), ids.end());
+  return ids;
+}
+
 Material find_material(const std::string& id_or_path, const std::filesystem::path& relative_to) {
   const std::string ref(trim(id_or_path));
   if (ref == kAirId) {
@@ -366,6 +400,12 @@ Material find_material(const std::string& id_or_path, const std::filesystem::pat
       m.name = ref;
       return m;
     }
+    const std::filesystem::path formula = dir / "formulas" / (ref + ".toml");
+    if (std::filesystem::is_regular_file(formula, ec)) {
+      Material m = load_table_or_formula(formula);
+      m.name = ref;
+      return m;
+    }
   }
 
   if (!ref.empty()) {
@@ -373,20 +413,21 @@ Material find_material(const std::string& id_or_path, const std::filesystem::pat
     if (p.is_relative() && !relative_to.empty()) p = relative_to / p;
     const auto st = std::filesystem::status(p, ec);
     if (std::filesystem::is_regular_file(st)) {
-      Material m = load_material_file(p);
+      Material m = load_table_or_formula(p);
       m.name = ref;
       return m;
     }
     if (std::filesystem::is_directory(st))
-      throw MaterialError(fmt::format("{} is a folder, not a table; allowed: a `wavelength_nm,n,k` CSV file", p.string()));
+      throw MaterialError(fmt::format("{} is a folder, not a table; allowed: a `wavelength_nm,n,k` CSV file or a dispersion-formula .toml", p.string()));
     if (std::filesystem::exists(st))
       throw MaterialError(fmt::format("{} is not a regular file (a pipe, device or socket); allowed: a "
-                                      "`wavelength_nm,n,k` CSV file",
+                                      "`wavelength_nm,n,k` CSV file or a dispersion-formula .toml",
                                       p.string()));
   }
 
   std::vector<std::string> known = shipped_material_ids();
   known.insert(known.begin(), std::string(kAirId));
+  for (std::string& f : shipped_formula_ids()) known.push_back(std::move(f) + " (formula)");
   std::string looked_in = fmt::format("no shipped table {}/{}.csv", dir.string(), ref);
   if (const MaterialsLocation loc = locate_materials(); loc.how.rfind("not found", 0) == 0)
     looked_in += fmt::format(" (the shipped materials folder was {}; set LUMTRAP_MATERIALS to it)", loc.how);
@@ -403,7 +444,7 @@ Material find_material(const std::string& id_or_path, const std::filesystem::pat
   }
   throw MaterialError(fmt::format(
       "unknown material '{}' ({}); known ids: {}; or give a path to a `wavelength_nm,n,k` CSV "
-      "file, or a constant index {{ n = ..., k = ... }}",
+      "file or a dispersion-formula .toml file, or a constant index {{ n = ..., k = ... }}",
       ref, looked_in, join(known, ", ")));
 }
 

@@ -77,10 +77,19 @@ MaterialsLocation locate_materials();
 /// locate_materials().dir.
 std::filesystem::path materials_dir();
 
+/// Reads a dispersion-formula file (TOML) into a Material sampled from the
+/// formula. The reader lives in src/io (io/formula_material_file.hpp), which
+/// installs it here, as geometry's height-map loader is installed.
+using FormulaFileLoader = Material (*)(const std::filesystem::path& file);
+void set_formula_file_loader(FormulaFileLoader loader);
+
 /// Resolves a material reference: "air" (built-in constant n = 1, k = 0), an
-/// id of a shipped table (file materials/<id>.csv), or a path to a user's
-/// CSV (absolute, or relative to `relative_to`, typically the scene file's
-/// folder; relative to the working directory when `relative_to` is empty).
+/// id of a shipped table (file materials/<id>.csv), an id of a shipped
+/// formula (file materials/formulas/<id>.toml; a table of the same id wins),
+/// or a path to a user's CSV or formula `.toml` file (absolute, or relative
+/// to `relative_to`, typically the scene file's folder; relative to the
+/// working directory when `relative_to` is empty). Formula files need the
+/// loader above (MaterialError when none is installed).
 /// Throws MaterialError listing the known ids when nothing matches.
 Material find_material(const std::string& id_or_path,
                        const std::filesystem::path& relative_to = {});
@@ -89,5 +98,8 @@ Material find_material(const std::string& id_or_path,
 /// solar spectrum table astm_g173_03 is not a material and is left out; the
 /// built-in "air" is not a table and is left out too.
 std::vector<std::string> shipped_material_ids();
+
+/// Ids of the shipped formula files (stems of materials/formulas/*.toml), sorted.
+std::vector<std::string> shipped_formula_ids();
 
 }  // namespace lumtrap

@@ -6,9 +6,12 @@
 #include <cmath>
 #include <stdexcept>
 
+#include "io/formula_material_file.hpp"
+
 namespace lumtrap {
 
 Material material_from_ref(const MaterialRef& ref, const Scene& scene) {
+  install_formula_file_reader();  // a scene made in code may name a formula file too
   if (ref.constant) return constant_material(ref.n, ref.k);
   return find_material(ref.id_or_path, scene.file.parent_path());
 }

@@ -94,5 +94,6 @@ if "$BIN" planar small.toml -o p2 2> err.txt; then fail "planar accepted a textu
 grep -q "planar" err.txt || fail "planar error unclear"
 "$BIN" check small.toml | grep -q 'thickness_convention = "mean"' || fail "check does not print the resolved scene"
 "$BIN" materials | grep -q "sinx_pecvd_n209" || fail "materials does not list sinx_pecvd_n209"
+"$BIN" materials | grep -q "^ito_1e20 " || fail "materials does not list the formula ito_1e20"
 ok "planar, check and materials"
 echo "PASS: test_cli_run"
