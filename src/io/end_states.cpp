@@ -41,6 +41,17 @@ std::vector<EndBin> rear_medium(const EndStateInfo& e, const Scene& s) {
                  e.group}};
 }
 
+// One bin when the scene has a rear given by its measured reflectance, none otherwise.
+std::vector<EndBin> rear_reflector(const EndStateInfo& e, const Scene& s) {
+  if (!s.rear_reflector) return {};
+  const RearReflector& r = *s.rear_reflector;
+  return {EndBin{e.state, 0, std::string(e.name),
+                 fmt::format("{} (R = {}, diffuse fraction {})", e.meaning,
+                             r.file.empty() ? format_number(r.constant_reflectance) : r.file.filename().string(),
+                             format_number(r.diffuse_fraction)),
+                 e.group}};
+}
+
 using G = EndGroup;
 const std::array<EndStateInfo, kEndStateCount> kTable = {{
     {EndState::absorbed_silicon, "absorbed_silicon", "absorbed in the silicon bulk: this is J_G", G::generation,
@@ -57,6 +68,9 @@ const std::array<EndStateInfo, kEndStateCount> kTable = {{
      "absorbed in rear film k (rear.films[k], counted from the silicon, from 0)", G::parasitic, rear_films},
     {EndState::absorbed_rear_medium, "absorbed_rear_medium", "absorbed in the rear medium (the rear metal)",
      G::parasitic, rear_medium},
+    {EndState::absorbed_rear_reflector, "absorbed_rear_reflector",
+     "absorbed by a rear given by its measured reflectance (rear.medium = { reflectance = ... }; only in such scenes)",
+     G::parasitic, rear_reflector},
     {EndState::transmitted_rear, "transmitted_rear", "left through the rear into a non-absorbing medium",
      G::transmission, single},
     {EndState::unresolved, "unresolved", "stopped at run.max_bounces interactions (reported; 0 on the shipped scenes)",

@@ -8,7 +8,9 @@
 // states add up to 1 at every wavelength and J_G + every loss = J_max.
 //
 // A state either has one bin per scene, or one bin per instance: one per
-// front film, one per rear film. Adding a state means adding an enumerator
+// front film, one per rear film; a state that only a scene feature can
+// reach (the measured rear reflector) has no bin in scenes without it, so
+// their result files keep their columns. Adding a state means adding an enumerator
 // and its row in end_states.cpp, and the line of the transport (or solver)
 // that ends photons in it.
 #include <array>
@@ -30,11 +32,12 @@ enum class EndState : std::uint8_t {
   absorbed_front_film,   ///< absorbed in a front film (one bin per film)
   absorbed_rear_film,    ///< absorbed in a rear film (one bin per film)
   absorbed_rear_medium,  ///< absorbed in an absorbing rear medium (a metal)
+  absorbed_rear_reflector,  ///< absorbed by a rear given by its measured reflectance (no bin otherwise)
   transmitted_rear,      ///< left through the rear into a non-absorbing medium
   unresolved,            ///< stopped at run.max_bounces interactions
   lost,                  ///< slipped through the mesh by numerical error
 };
-inline constexpr std::size_t kEndStateCount = 9;
+inline constexpr std::size_t kEndStateCount = 10;
 
 /// How the states are grouped in tables and plots.
 enum class EndGroup {

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "geometry/texture_descriptor.hpp"
+#include "io/rear_reflector.hpp"
 
 namespace lumtrap {
 
@@ -130,6 +131,9 @@ struct Scene {
   Surface front, rear;
   MaterialRef rear_medium;            ///< below the rear films: air (default) or a metal
   bool rear_perfect_mirror = false;   ///< rear.medium = "perfect_mirror": R = 1 at every angle, no films
+  /// rear.medium = { reflectance = ..., diffuse_fraction = ... }: a measured
+  /// internal reflectance instead of films and a medium (rear_reflector.hpp).
+  std::optional<RearReflector> rear_reflector;
   Illumination illumination;
   RunSettings run;
 };

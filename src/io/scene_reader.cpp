@@ -103,6 +103,8 @@ class SceneReader {
  private:
   fs::path file_, dir_;
   bool rear_mirror_ = false;  // rear.medium = "perfect_mirror"
+  std::optional<RearReflector> reflector_;  // rear.medium = { reflectance = ... }
+  std::string reflector_where_;
   std::vector<MaterialUse> uses_;
   std::string wavelengths_where_;
 
@@ -253,6 +255,7 @@ class SceneReader {
   // --- sections -----------------------------------------------------------------
   void read_wafer(const toml::table* t, Wafer& w);
   Surface read_surface(const toml::table* t, const std::string& path, MaterialRef* rear_medium);
+  RearReflector read_rear_reflector(const toml::table& t, const std::string& key);
   Texture read_texture(const toml::table& surface, const std::string& path, const toml::node* kind_node);
   double texture_number(const toml::node& n, const std::string& key, const geometry::ParamSpec& spec) const;
   void read_illumination(const toml::table* t, Illumination& ill, std::pair<double, double>& spectrum_range,
@@ -553,11 +556,55 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
         fail_value(*mn, path + ".medium", "a perfect mirror has no ideal interface; allowed: interface = \"films\"");
       rear_mirror_ = true;
       *rear_medium = material(nullptr, path + ".medium", "air", tb);
+    } else if (mn && mn->is_table() && mn->as_table()->contains("reflectance")) {
+      if (!s.films.empty())
+        fail_value(*mn, path + ".medium",
+                   "a measured reflectance describes the whole rear and cannot have films in front of it; "
+                   "allowed: { reflectance = ... } without [[rear.films]], or a material");
+      if (s.interface_model == InterfaceModel::ideal)
+        fail_value(*mn, path + ".medium", "a measured reflectance has no ideal interface; allowed: interface = \"films\"");
+      if (s.scattering != SurfaceScattering::specular)
+        fail_value(*mn, path + ".medium",
+                   "a measured reflectance sets its own scattering with diffuse_fraction; allowed: rear.scattering "
+                   "= \"specular\" (the default) with it");
+      reflector_ = read_rear_reflector(*mn->as_table(), path + ".medium");
+      *rear_medium = material(nullptr, path + ".medium", "air", tb);
     } else {
       *rear_medium = material(mn, path + ".medium", "air", tb);
     }
   }
   return s;
+}
+
+RearReflector SceneReader::read_rear_reflector(const toml::table& t, const std::string& key) {
+  check_keys(t, key, {"reflectance", "diffuse_fraction"});
+  RearReflector r;
+  const toml::node& rn = *t.get("reflectance");
+  if (rn.is_string()) {
+    fs::path p = rn.as_string()->get();
+    if (p.is_relative()) p = dir_ / p;
+    std::error_code ec;
+    if (!fs::is_regular_file(p, ec))
+      fail_value(rn, key + ".reflectance",
+                 fmt::format("no file {}; allowed: a number in [0, 1] or a CSV of wavelength_nm,reflectance", p.string()));
+    try {
+      read_reflectance_csv(p, r);
+    } catch (const std::runtime_error& e) {
+      fail_value(rn, key + ".reflectance", e.what());
+    }
+    r.file = p.lexically_normal();
+  } else {
+    r.constant_reflectance = number(rn, key + ".reflectance", "a number in [0, 1] or a CSV file name");
+    if (!(r.constant_reflectance >= 0 && r.constant_reflectance <= 1))
+      fail_value(rn, key + ".reflectance", "out of range; allowed: a number in [0, 1] or a CSV file name");
+  }
+  if (const toml::node* df = t.get("diffuse_fraction")) {
+    r.diffuse_fraction = number(*df, key + ".diffuse_fraction", "a number in [0, 1]");
+    if (!(r.diffuse_fraction >= 0 && r.diffuse_fraction <= 1))
+      fail_value(*df, key + ".diffuse_fraction", "out of range; allowed: a number in [0, 1]");
+  }
+  reflector_where_ = where(rn.source());
+  return r;
 }
 
 std::vector<double> SceneReader::read_wavelengths(const toml::node& n, const std::string& key) {
@@ -803,6 +850,7 @@ Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ig
   s.front = read_surface(sub_table(root, "", "front"), "front", nullptr);
   s.rear = read_surface(sub_table(root, "", "rear"), "rear", &s.rear_medium);
   s.rear_perfect_mirror = rear_mirror_;
+  s.rear_reflector = reflector_;
 
   std::pair<double, double> spectrum_range;
   std::string spectrum_where, spectrum_shown;
@@ -820,6 +868,15 @@ Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ig
           format_length_nm(w), wavelengths_where_, format_number(spectrum_range.first),
           format_number(spectrum_range.second)));
   check_coverage(wl);
+  if (reflector_ && !reflector_->wavelength_nm.empty())
+    for (double w : wl)
+      if (w < reflector_->wavelength_nm.front() || w > reflector_->wavelength_nm.back())
+        throw SceneError(fmt::format(
+            "{}: key 'rear.medium.reflectance': value \"{}\": the reflectance covers {}–{} nm, but the run "
+            "wavelength {} lies outside; allowed: run wavelengths inside {}–{} nm",
+            reflector_where_, reflector_->file.string(), format_number(reflector_->wavelength_nm.front()),
+            format_number(reflector_->wavelength_nm.back()), format_length_nm(w),
+            format_number(reflector_->wavelength_nm.front()), format_number(reflector_->wavelength_nm.back())));
   record_positions(root, "", s.positions);
   return s;
 }

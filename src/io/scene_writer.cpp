@@ -73,7 +73,7 @@ std::string texture_toml(const Texture& t, const std::string& surface, const Pat
 }
 
 void write_surface(std::string& out, const PathText& path_text, const Surface& s, const std::string& name, const MaterialRef* medium,
-                   bool perfect_mirror = false) {
+                   bool perfect_mirror = false, const RearReflector* reflector = nullptr) {
   out += fmt::format("\n[{}]\n", name);
   out += fmt::format("texture = {}\n", toml_quote(s.texture.kind));
   out += fmt::format("conformality = \"{}\"\n", word_of(s.conformality, kConformalityWords));
@@ -81,7 +81,14 @@ void write_surface(std::string& out, const PathText& path_text, const Surface& s
   out += fmt::format("interface = \"{}\"\n", word_of(s.interface_model, kInterfaceWords));
   if (s.scattering == SurfaceScattering::mixed)
     out += fmt::format("diffuse_fraction = {}\n", toml_float_text(s.diffuse_fraction));
-  if (medium) out += fmt::format("medium = {}\n", perfect_mirror ? "\"perfect_mirror\"" : material_toml(*medium, path_text));
+  if (medium && reflector) {
+    const std::string r = reflector->file.empty() ? toml_float_text(reflector->constant_reflectance)
+                                                  : toml_quote(path_text(reflector->file.string()));
+    out += fmt::format("medium = {{ reflectance = {}, diffuse_fraction = {} }}\n", r,
+                       toml_float_text(reflector->diffuse_fraction));
+  } else if (medium) {
+    out += fmt::format("medium = {}\n", perfect_mirror ? "\"perfect_mirror\"" : material_toml(*medium, path_text));
+  }
 
   out += texture_toml(s.texture, name, path_text);
   for (const Film& f : s.films) {
@@ -105,7 +112,8 @@ std::string scene_toml(const Scene& s, bool full, const PathText& path_text) {
                      material_toml(s.wafer.material, path_text), toml_quote(format_length_um(s.wafer.thickness_um)),
                      word_of(s.wafer.thickness_convention, kConventionWords));
   write_surface(out, path_text, s.front, "front", nullptr);
-  write_surface(out, path_text, s.rear, "rear", &s.rear_medium, s.rear_perfect_mirror);
+  write_surface(out, path_text, s.rear, "rear", &s.rear_medium, s.rear_perfect_mirror,
+                s.rear_reflector ? &*s.rear_reflector : nullptr);
 
   const Illumination& ill = s.illumination;
   out += "\n[illumination]\n";

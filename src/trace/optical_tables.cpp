@@ -123,10 +123,16 @@ WavelengthOptics make_wavelength_optics(const Scene& scene, const SceneMaterials
   o.rear.n_inside = n_si.real();
   o.rear.outside_absorbs = n_rear.imag() > 0;
   o.rear.ideal = scene.rear.interface_model == InterfaceModel::ideal;
+  if (scene.rear_reflector) {
+    o.rear.reflector = true;
+    o.rear.reflector_R = scene.rear_reflector->reflectance_at(lambda);
+    o.rear.reflector_diffuse = scene.rear_reflector->diffuse_fraction;
+    o.rear.outside_absorbs = false;
+  }
   o.rear.from_inside.resize(rear_tilt_cos.size());
   o.rear.from_outside.resize(rear_tilt_cos.size());
   for (std::size_t k = 0; k < rear_tilt_cos.size(); ++k) {
-    if (scene.rear_perfect_mirror) {
+    if (scene.rear_perfect_mirror || scene.rear_reflector) {  // the reflector's tables are never read
       o.rear.from_inside[k] = perfect_mirror_table(samples);
       o.rear.from_outside[k] = perfect_mirror_table(samples);
       continue;

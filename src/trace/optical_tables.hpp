@@ -27,6 +27,11 @@ struct SurfaceOptics {
   double n_outside = 1, n_inside = 1;    ///< real indices, for Snell's law
   bool outside_absorbs = false;          ///< light entering the outside medium is absorbed there
   bool ideal = false;                    ///< InterfaceModel::ideal: R = 0 unless totally reflected
+  /// Rear given by a measured reflectance (io/rear_reflector.hpp): R at this
+  /// wavelength and the Lambertian share of the reflected light. reflector =
+  /// false: the tables decide.
+  bool reflector = false;
+  double reflector_R = 0, reflector_diffuse = 0;
 };
 
 struct WavelengthOptics {

@@ -213,6 +213,29 @@ enum class Outcome { continues, ended };
   ph.E = random_linear_field(ph.d, rng);
 }
 
+// Light in the silicon meeting a rear given by its measured reflectance R
+// (io/rear_reflector.hpp): reflected with probability R, Lambertian with
+// probability diffuse_fraction, else as a mirror (field as at a perfect
+// conductor, r_s = -1, r_p = +1); otherwise absorbed in the reflector.
+Outcome meet_rear_reflector(const TraceContext& ctx, const SurfaceOptics& so, const Eigen::Vector3d& m,
+                            double cos_i, double eps, Photon& ph, PhotonRng& rng, WavelengthTally& t) {
+  if (rng.uniform() >= so.reflector_R) {
+    end_in(ctx, ph, t, EndState::absorbed_rear_reflector);
+    return Outcome::ended;
+  }
+  const Eigen::Vector3d hit = ph.p;
+  if (so.reflector_diffuse > 0 && rng.uniform() < so.reflector_diffuse) {
+    ph.d = cosine_weighted(m, rng.uniform(), rng.uniform());
+    ph.E = random_linear_field(ph.d, rng);
+  } else {
+    const SPComponents sp = decompose(ph.E, ph.d, m);
+    ph.d = (ph.d + 2.0 * cos_i * m).normalized();
+    set_field(ph, sp, cplx(-1, 0), cplx(1, 0), ctx.track_polarization, rng);
+  }
+  ph.p = hit + eps * m;
+  return Outcome::continues;
+}
+
 // One interaction with a surface triangle. `front` tells which surface.
 Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph, PhotonRng& rng,
                  WavelengthTally& t) {
@@ -228,6 +251,8 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
     return Outcome::ended;
   }
   const Eigen::Vector3d m = from_inside ? Eigen::Vector3d(-nout) : nout;  // normal on the incident side
+  if (so.reflector && !front)
+    return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.eps, ph, rng, t);
   const StackTable& table = (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
   const double n1 = from_inside ? so.n_inside : so.n_outside;
   const double n2 = from_inside ? so.n_outside : so.n_inside;

@@ -53,6 +53,35 @@ TEST(Determinism, PhotonRangesAdd) {
   EXPECT_TRUE(whole == parts);
 }
 
+// The cell features (measured rear reflector) keep both invariances.
+const char* kCellScene = R"(
+[wafer]
+thickness = "160 um"
+[front]
+texture = "upright_pyramids"
+[rear]
+medium = { reflectance = 0.7, diffuse_fraction = 0.5 }
+[illumination]
+polar_angle = "30 deg"
+wavelengths = ["1050 nm"]
+[run]
+seed = 42
+)";
+
+TEST(Determinism, CellFeaturesKeepThreadAndSplitInvariance) {
+  auto run = prepare_run(test::scene_from_text(kCellScene, "cell"));
+  const auto one = with_threads(*run, 1);
+  const auto two = with_threads(*run, 2);
+  ASSERT_EQ(one.size(), two.size());
+  for (std::size_t i = 0; i < one.size(); ++i) EXPECT_TRUE(one[i] == two[i]) << "wavelength " << i;
+  const auto optics = wavelength_optics(*run, 0);
+  const WavelengthTally whole = trace_wavelength(*run, optics, 0, 0, 3000);
+  WavelengthTally parts = trace_wavelength(*run, optics, 0, 0, 1234);
+  parts += trace_wavelength(*run, optics, 0, 1234, 3000);
+  EXPECT_TRUE(whole == parts);
+  EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_rear_reflector), 0u);
+}
+
 TEST(Determinism, DifferentSeedsDiffer) {
   Scene a = test::scene_from_text(kScene);
   Scene b = a;
