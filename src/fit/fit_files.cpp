@@ -29,11 +29,11 @@ std::vector<OutputFile> fit_files(const FitSetup& setup, const FitResult& res, d
   files.push_back({"parameters.csv", csv});
 
   csv = "key";
-  for (const auto& q : pars) csv += "," + csv_field(q.key);
+  for (const auto& q : pars) csv.append(",").append(csv_field(q.key));
   csv += "\n";
   for (std::size_t a = 0; a < p; ++a) {
     csv += csv_field(pars[a].key);
-    for (std::size_t b = 0; b < p; ++b) csv += "," + num(res.correlation(Eigen::Index(a), Eigen::Index(b)));
+    for (std::size_t b = 0; b < p; ++b) csv.append(",").append(num(res.correlation(Eigen::Index(a), Eigen::Index(b))));
     csv += "\n";
   }
   files.push_back({"correlation.csv", csv});
