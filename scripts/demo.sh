@@ -34,12 +34,14 @@ echo "== sweep: scenes/k7_sinx_rear_sweep.toml (front SiNx 65-85 nm x Al/Ag rear
 echo "== fit: scenes/k7_fit_recipe_b.toml to its synthetic measured curve (2 film thicknesses, a few seconds)"
 "$BIN" fit scenes/k7_fit_recipe_b.toml --measured scenes/k7_fit_recipe_b_measured.csv \
   -o "$OUT/k7_fit_recipe_b-fit" --overwrite 2> /dev/null
+tr "," "\t" < "$OUT/k7_fit_recipe_b-fit/parameters.csv"
 FOLDERS=("$OUT/k7_polished_reference-planar" "$OUT/k7_polished_reference" "$OUT/k7_recipe_a_coarse"
          "$OUT/k7_recipe_b_standard" "$OUT/k7_recipe_c_fine" "$OUT/lambertian_limit_180um")
 echo "== plots (PNG + SVG) and reports (HTML) of every result and of the sweep"
-"$BIN" plot "${FOLDERS[@]}" "$SWEEP" -o "$OUT/comparison-plots" > "$OUT/plots-written.txt"
+FIT="$OUT/k7_fit_recipe_b-fit"
+"$BIN" plot "${FOLDERS[@]}" "$SWEEP" "$FIT" -o "$OUT/comparison-plots" > "$OUT/plots-written.txt"
 echo "$(wc -l < "$OUT/plots-written.txt") chart files, listed in $OUT/plots-written.txt"
-"$BIN" report "${FOLDERS[@]}" "$SWEEP"
+"$BIN" report "${FOLDERS[@]}" "$SWEEP" "$FIT"
 echo
 echo "== line K7, AM1.5G, 300-1200 nm (model estimates, mA/cm2 ± standard error)"
 python3 scripts/compare_results.py "$OUT/k7_polished_reference-planar" "$OUT/k7_polished_reference" \

@@ -7,13 +7,14 @@
 - several result folders together: spectra, losses, generation, passes with
   a line (or bar) per folder.
 - a sweep folder: sweep_lines, sweep_heatmap (when two parameters are numbers).
+- a fit folder (`lumtrap fit`): fit (measured vs fitted with residuals).
 """
 from __future__ import annotations
 
 import os
 
 from . import chart_absorption_map, chart_angles, chart_generation, chart_losses, chart_passes, chart_spectra
-from . import chart_sweep
+from . import chart_fit, chart_sweep
 from .exr_channels import read_exr_channels
 from .figure_style import caption_text
 from .solar_flux import photon_flux
@@ -76,6 +77,11 @@ def sweep_charts(s, ctx: Context):
         else:
             charts.append(c)
     return charts, skipped
+
+
+def fit_charts(f, ctx: Context):
+    cap = caption_text([f.scene_name], ["measured reflectance"], ctx.version, str(f.fit.get("method", "")))
+    return [chart_fit.fit_chart(f, cap)]
 
 
 def plots_dir(folder: str) -> str:

@@ -1,4 +1,4 @@
-"""`lumtrap report`: one self-contained HTML file per result or sweep folder.
+"""`lumtrap report`: one self-contained HTML file per result, sweep or fit folder.
 
 Input: folders (as for plot_files), --out (one folder only) and the
 Context facts. Output: FOLDER/report.html (or --out), written atomically,
@@ -14,7 +14,9 @@ A result report: J_max, J_G and every loss with ±1σ (table-currents), the
 warnings (list-warnings), the charts (chart-<name>), the run facts
 (table-run) and the resolved scene (scene-toml). A sweep report: best
 variant, sweep facts (table-sweep), charts, the table of variants
-(table-variants), missing variants and warnings. Every number is labelled
+(table-variants), missing variants and warnings. A fit report: the
+parameters with standard errors and correlations (table-parameters), the
+fit facts (table-fit) and the fit chart. Every number is labelled
 a model estimate. The script makes tables sortable and sets
 data-ready="yes" on <body> once it has run, which the Chromium test reads.
 """
@@ -251,14 +253,46 @@ def sweep_report(sw, ctx) -> str:
     return _page(sw.scene_name, subtitle, body, ctx.version)
 
 
+def fit_report(f, ctx) -> str:
+    params = f.fit.get("parameters", [])
+    head = ("<tr><th>parameter</th><th>unit</th><th>start</th><th>bounds</th><th>best ± standard error</th>"
+            + "".join(f"<th>correlation with {esc(str(p.get('key', '')))}</th>" for p in params) + "</tr>")
+    rows = []
+    for p in params:
+        corr = p.get("correlation", [])
+        rows.append(f"<tr><td>{esc(str(p.get('key', '')))}</td><td>{esc(str(p.get('unit', '')))}</td>"
+                    f"<td class=\"num\">{_fact(p.get('start', ''))}</td>"
+                    f"<td class=\"num\">{_fact(p.get('min', ''))} .. {_fact(p.get('max', ''))}</td>"
+                    f"<td class=\"num\" data-sort=\"{p.get('best', '')}\">{float(p.get('best', math.nan)):.5g} ± "
+                    f"{float(p.get('standard_error', math.nan)):.2g}</td>"
+                    + "".join(f'<td class="num">{float(c):+.3f}</td>' for c in corr) + "</tr>")
+    table = ('<section id="parameters"><h2>Fitted parameters (model estimates)</h2>'
+             "<p>The values that make the model curve closest to the measured one, under the model's assumptions; "
+             "the standard errors include the Monte Carlo error of the model curve.</p>"
+             '<table id="table-parameters" class="sortable"><thead>' + head + "</thead><tbody>" + "".join(rows)
+             + "</tbody></table></section>")
+    facts = {k: v for k, v in f.fit.items() if k != "parameters"}
+    fact_rows = "".join(f"<tr><td>{esc(k)}</td><td>{esc(_fact(v))}</td></tr>" for k, v in facts.items())
+    run = ('<section id="run"><h2>Fit facts (fit.json)</h2><table id="table-fit"><thead><tr><th>key</th>'
+           f'<th>value</th></tr></thead><tbody><tr><td>folder</td><td>{esc(os.path.abspath(f.path))}</td></tr>'
+           + fact_rows + "</tbody></table></section>")
+    inputs = [os.path.join(f.path, n) for n in ("fit.json", "curve.csv")]
+    body = "\n".join([table, _charts_section(charts_mod.fit_charts(f, ctx), [], f.path, inputs, ctx.version), run])
+    chi2 = f.fit.get("chi2_per_degree_of_freedom")
+    subtitle = (f"fit of {f.quantity}, {len(f.wavelength_nm)} points"
+                + (f", χ²/dof = {chi2:.2f}" if isinstance(chi2, (int, float)) else "") + " · model estimate")
+    return _page(f"Fit: {f.scene_name}", subtitle, body, ctx.version)
+
+
 def report_folders(folders, out, version, materials_dir, lumtrap_exe):
     ctx = charts_mod.Context(version, materials_dir, lumtrap_exe)
     if out and len(folders) != 1:
         raise PlotError("--out names the report file of one folder: give one folder, or leave --out out "
                         "(each folder gets FOLDER/report.html)")
-    results, sweeps = read_folders(folders)
+    results, sweeps, fits = read_folders(folders)
     tasks = [(result_report, r, ctx, out or os.path.join(r.path, "report.html")) for r in results]
     tasks += [(sweep_report, s, ctx, out or os.path.join(s.path, "report.html")) for s in sweeps]
+    tasks += [(fit_report, f, ctx, out or os.path.join(f.path, "report.html")) for f in fits]
     return run_all(_write_report, tasks), []
 
 

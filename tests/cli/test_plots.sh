@@ -101,6 +101,45 @@ grep -q "best: $BEST" sw/plots/sweep_lines.svg && grep -q "$BEST (" sw/plots/swe
   || fail "best variant $BEST is not marked"
 ok "best variant $BEST marked"
 
+# --- a fit folder: measured vs fitted with residuals (chart and report)
+# the "measured" curve is lumtrap's own planar reflectance at 78 nm (synthetic, no measurement)
+cat > fitscene.toml <<'TOML'
+[scene]
+name = "K7 planar fit for the chart test"
+[wafer]
+thickness = "160 um"
+[[front.films]]
+material = "sinx_pecvd_n209"
+thickness = "78 nm"
+[rear]
+medium = "al_rakic1995"
+[illumination]
+wavelengths = { from = "400 nm", to = "1000 nm", step = "50 nm" }
+TOML
+"$BIN" planar fitscene.toml -o truth > /dev/null 2>&1 || fail "planar run of the fit truth"
+"$PY" - <<'PY' || fail "measured curve from the planar result"
+import csv
+rows = list(csv.DictReader(l for l in open("truth/spectral.csv") if not l.startswith("#")))
+with open("measured.csv", "w") as f:
+    f.write("wavelength_nm,reflectance,uncertainty\n")
+    for r in rows:
+        f.write(f"{r['wavelength [nm]']},{float(r['reflected_front']) + float(r['escaped_front']):.6f},0.002\n")
+PY
+sed -i 's/thickness = "78 nm"/thickness = "70 nm"/' fitscene.toml
+printf '[fit.parameters]\n"front.films[0].thickness" = { start = "70 nm", min = "50 nm", max = "100 nm" }\n' >> fitscene.toml
+"$BIN" fit fitscene.toml --measured measured.csv -o fitted > /dev/null 2>&1 || fail "lumtrap fit"
+"$BIN" plot fitted > written_fit.txt 2> notes_fit.txt || { cat notes_fit.txt; fail "lumtrap plot of a fit folder"; }
+for f in fitted/plots/fit.png fitted/plots/fit.svg; do
+  grep -qx "$f" written_fit.txt || fail "$f is not in the list lumtrap plot printed"
+done
+$CHECK svg fitted/plots/fit.svg --series 3 --label "wavelength [nm]" --label "total reflectance" \
+  --label "residual / σ" --label "measured ±1σ" --label "front.films[0].thickness" || exit 1
+$CHECK png fitted/plots/fit.png || exit 1
+"$BIN" report fitted > /dev/null 2>&1 || fail "lumtrap report of a fit folder"
+grep -q 'id="table-parameters"' fitted/report.html && grep -q 'id="chart-fit"' fitted/report.html \
+  || fail "fit report lacks the parameter table or the chart"
+ok "fit folder: chart with measured, fitted and residual series; report with the parameter table"
+
 # --- reproducible: drawing again gives the same SVG bytes
 # (generation and passes are plain line charts like the spectra: left out of the copy to keep the test short)
 mkdir again && cp -r b again/ && rm -rf again/b/plots again/b/generation.csv again/b/passes.csv
@@ -142,7 +181,7 @@ one_line_error() {  # EXPECTED_TEXT COMMAND...
   ok "error: $(cat err.txt)"
 }
 mkdir empty
-one_line_error "not a result folder (no summary.json) nor a sweep folder" "$BIN" plot empty
+one_line_error "not a result folder (no summary.json), a sweep folder (no sweep.json) nor a fit folder" "$BIN" plot empty
 one_line_error "no such folder" "$BIN" plot does-not-exist
 cp -r polished broken && rm broken/spectral.csv
 one_line_error "spectral.csv is missing" "$BIN" plot broken
