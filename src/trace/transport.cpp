@@ -31,11 +31,13 @@ struct Photon {
   int interactions = 0;
   int passes = 0;
   std::uint32_t group = 0;  // paired group: photon index mod TallyLayout::photon_groups
+  unsigned last_prim = RTC_INVALID_GEOMETRY_ID;  // triangle of the last interaction in this zone
 };
 
 // The nearest hit of a single-precision Embree ray from o along d within
 // [0, tfar]; hit.geomID is RTC_INVALID_GEOMETRY_ID on a miss.
-inline RTCRayHit intersect(RTCScene scene, const Eigen::Vector3d& o, const Eigen::Vector3d& d, float tfar) {
+inline RTCRayHit intersect(RTCScene scene, const Eigen::Vector3d& o, const Eigen::Vector3d& d, float tnear,
+                           float tfar) {
   RTCRayHit rh;
   rh.ray.org_x = float(o.x());
   rh.ray.org_y = float(o.y());
@@ -43,7 +45,7 @@ inline RTCRayHit intersect(RTCScene scene, const Eigen::Vector3d& o, const Eigen
   rh.ray.dir_x = float(d.x());
   rh.ray.dir_y = float(d.y());
   rh.ray.dir_z = float(d.z());
-  rh.ray.tnear = 0.0f;
+  rh.ray.tnear = tnear;
   rh.ray.tfar = tfar;
   rh.ray.mask = 0xFFFFFFFFu;
   rh.ray.flags = 0;
@@ -62,16 +64,26 @@ inline RTCRayHit intersect(RTCScene scene, const Eigen::Vector3d& o, const Eigen
 //
 // A photon that starts above the highest point of the surface and travels
 // up, or below the lowest and travels down, cannot meet it: Embree is not
-// asked (the margin, half the ray offset s.eps, is many float ulps, so the
-// single-precision scene could not report a hit either). On a planar surface
-// this is every ray leaving it after an interaction.
+// asked (margin: half the ray offset). On a planar surface this is every ray
+// leaving it after an interaction.
+//
+// A ray leaves a surface from just beside the hit point (s.offset, a few
+// float ulps), so it can start a hair on the wrong side of the triangle it
+// left, or of a neighbour at an edge, because Embree intersects in single
+// precision. Hits closer than s.eps on the triangle just left, or on any
+// triangle from the side the photon is not on, are such artefacts: they are
+// skipped and the ray continues past them (at most kMaxSkippedHits times).
+// A real hit on a neighbouring facet at a concave edge, however close, is
+// kept: that is what a larger origin offset would jump over.
 ZoneExit cross_zone(const TileScene& scene, const SurfaceModel& s, Photon& ph, double& path,
                     unsigned& prim) {
+  constexpr int kMaxSkippedHits = 8;
   path = 0;
   const Eigen::Vector3d& d = ph.d;
   const double L = s.period;
-  const bool moving_away = (d.z() > 0 && ph.p.z() > s.max_z + 0.5 * s.eps) ||
-                           (d.z() < 0 && ph.p.z() < s.min_z - 0.5 * s.eps);
+  const bool moving_away = (d.z() > 0 && ph.p.z() > s.max_z + 0.5 * s.offset) ||
+                           (d.z() < 0 && ph.p.z() < s.min_z - 0.5 * s.offset);
+  const bool in_silicon = ph.medium == Medium::silicon;
   for (int k = 0; k < kMaxWallCrossings; ++k) {
     const Eigen::Vector3d& p = ph.p;
     double tz = d.z() > 0 ? (s.zone_hi - p.z()) / d.z() : d.z() < 0 ? (s.zone_lo - p.z()) / d.z() : kInf;
@@ -84,16 +96,25 @@ ZoneExit cross_zone(const TileScene& scene, const SurfaceModel& s, Photon& ph, d
     const double tmax = std::min(tz, twall);
 
     if (!moving_away) {
-      RTCRayHit rh = intersect(scene.get(), p, d, float(tmax) * (1.0f + 4e-7f) + 1e-30f);
+      const float tfar = float(tmax) * (1.0f + 4e-7f) + 1e-30f;
+      RTCRayHit rh = intersect(scene.get(), p, d, 0.0f, tfar);
+      for (int skipped = 0; rh.hit.geomID != RTC_INVALID_GEOMETRY_ID && skipped < kMaxSkippedHits; ++skipped) {
+        const double dn = d.dot(s.outward[rh.hit.primID]);
+        const bool wrong_side = (dn > 0) != in_silicon || dn == 0.0;
+        if (rh.ray.tfar >= s.eps || (rh.hit.primID != ph.last_prim && !wrong_side)) break;
+        rh = intersect(scene.get(), p, d, std::nextafter(rh.ray.tfar, tfar), tfar);
+      }
 
       if (rh.hit.geomID != RTC_INVALID_GEOMETRY_ID) {
         const double t = rh.ray.tfar;
         ph.p += t * d;
         path += t;
         prim = rh.hit.primID;
+        ph.last_prim = prim;
         return ZoneExit::hit;
       }
     }
+    ph.last_prim = RTC_INVALID_GEOMETRY_ID;  // past the wall or out of the zone: nothing left just now
     if (tz <= twall) {
       ph.p += tz * d;
       ph.p.z() = d.z() > 0 ? s.zone_hi : s.zone_lo;
@@ -120,7 +141,7 @@ double front_height(const TraceContext& ctx, double x, double y) {
   const SurfaceModel& s = ctx.model->front;
   if (s.max_z <= s.min_z) return s.max_z;  // flat
   const RTCRayHit rh = intersect(ctx.front_scene->get(), Eigen::Vector3d(x, y, s.zone_lo), Eigen::Vector3d(0, 0, 1),
-                                 float(s.zone_hi - s.zone_lo));
+                                 0.0f, float(s.zone_hi - s.zone_lo));
   if (rh.hit.geomID == RTC_INVALID_GEOMETRY_ID) return s.max_z;  // through a crack: the top (depth >= 0)
   return s.zone_lo + rh.ray.tfar;
 }
@@ -252,7 +273,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   const Eigen::Vector3d m = from_inside ? Eigen::Vector3d(-nout) : nout;  // normal on the incident side
   if (so.reflector && !front)
-    return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.eps, ph, rng, t);
+    return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.offset, ph, rng, t);
   const StackTable& table = (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
   const double n1 = from_inside ? so.n_inside : so.n_outside;
   const double n2 = from_inside ? so.n_outside : so.n_inside;
@@ -299,7 +320,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   const auto reflect_specular = [&] {
     ph.d = (ph.d + 2.0 * cos_i * m).normalized();
     set_field(ph, sp, r.rs, r.rp, carry, rng);
-    ph.p = hit + sm.eps * m;
+    ph.p = hit + sm.offset * m;
     return Outcome::continues;
   };
 
@@ -307,7 +328,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
     if (!diffuse) return reflect_specular();
     ph.d = cosine_weighted(m, rng.uniform(), rng.uniform());
     ph.E = random_linear_field(ph.d, rng);
-    ph.p = hit + sm.eps * m;
+    ph.p = hit + sm.offset * m;
     return Outcome::continues;
   }
   if (xi <= R + T || table.layers == 0) {  // transmission (no films: nothing else can happen)
@@ -334,7 +355,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
       ph.medium = Medium::silicon;
       ph.entered = true;
     }
-    ph.p = hit - sm.eps * m;
+    ph.p = hit - sm.offset * m;
     return Outcome::continues;
   }
   // absorbed in one of the films

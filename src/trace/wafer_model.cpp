@@ -37,6 +37,7 @@ void place_surface(SurfaceModel& s) {
   s.min_z = zmin;
   s.max_z = zmax;
   s.eps = ray_offset(m.period, zmin, zmax);
+  s.offset = s.eps / 32.0;
   double margin = 4.0 * s.eps;
   s.zone_lo = zmin - margin;
   s.zone_hi = zmax + margin;

@@ -28,7 +28,14 @@ struct SurfaceModel {
   double min_z = 0, max_z = 0;           ///< the mesh's z range (local frame)
   double zone_lo = 0, zone_hi = 0;       ///< clip planes just outside the mesh's z range
   double period = 0;
-  double eps = 1e-6;                     ///< offset of new ray origins from a surface, µm
+  /// Rounding window, µm (64 float ulps of the tile's extent): a hit closer
+  /// than this on the triangle a ray just left, or on any triangle from its
+  /// wrong side, is an artefact of single-precision intersection and is skipped.
+  double eps = 1e-6;
+  /// Offset of a new ray origin from the surface it leaves, µm (2 float ulps
+  /// of the extent, eps / 32): small, so that near a concave edge the origin
+  /// does not cross the neighbouring facet's plane.
+  double offset = 1e-6 / 32;
 };
 
 struct WaferModel {
