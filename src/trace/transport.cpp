@@ -31,6 +31,7 @@ struct Photon {
   int interactions = 0;
   int passes = 0;
   std::uint32_t group = 0;  // paired group: photon index mod TallyLayout::photon_groups
+  MacroPosition macro;      // lateral position in the macro frame (when the scene has one)
 };
 
 // The nearest hit of a single-precision Embree ray from o along d within
@@ -218,9 +219,10 @@ enum class Outcome { continues, ended };
 // probability diffuse_fraction, else as a mirror (field as at a perfect
 // conductor, r_s = -1, r_p = +1); otherwise absorbed in the reflector.
 Outcome meet_rear_reflector(const TraceContext& ctx, const SurfaceOptics& so, const Eigen::Vector3d& m,
-                            double cos_i, double eps, Photon& ph, PhotonRng& rng, WavelengthTally& t) {
+                            double cos_i, double eps, Photon& ph, PhotonRng& rng, WavelengthTally& t,
+                            EndState absorbed) {
   if (rng.uniform() >= so.reflector_R) {
-    end_in(ctx, ph, t, EndState::absorbed_rear_reflector);
+    end_in(ctx, ph, t, absorbed);
     return Outcome::ended;
   }
   const Eigen::Vector3d hit = ph.p;
@@ -240,7 +242,10 @@ Outcome meet_rear_reflector(const TraceContext& ctx, const SurfaceOptics& so, co
 Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph, PhotonRng& rng,
                  WavelengthTally& t) {
   const SurfaceModel& sm = front ? ctx.model->front : ctx.model->rear;
-  const SurfaceOptics& so = front ? ctx.optics->front : ctx.optics->rear;
+  // A patterned rear: the region under the photon's macro position decides
+  // the optics and where absorbed light is counted.
+  const bool opening = !front && ctx.rear_pattern && in_opening(*ctx.rear_pattern, ph.macro.x, ph.macro.y);
+  const SurfaceOptics& so = front ? ctx.optics->front : opening ? ctx.optics->rear_opening : ctx.optics->rear;
   const SurfaceScatter& sc = front ? ctx.front_scatter : ctx.rear_scatter;
   const Eigen::Vector3d& nout = sm.outward[prim];
   const double dn = ph.d.dot(nout);
@@ -252,7 +257,8 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   const Eigen::Vector3d m = from_inside ? Eigen::Vector3d(-nout) : nout;  // normal on the incident side
   if (so.reflector && !front)
-    return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.eps, ph, rng, t);
+    return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.eps, ph, rng, t,
+                               opening ? EndState::absorbed_rear_opening_reflector : EndState::absorbed_rear_reflector);
   const StackTable& table = (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
   const double n1 = from_inside ? so.n_inside : so.n_outside;
   const double n2 = from_inside ? so.n_outside : so.n_inside;
@@ -313,7 +319,8 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   if (xi <= R + T || table.layers == 0) {  // transmission (no films: nothing else can happen)
     const bool to_outside = from_inside;
     if (to_outside && so.outside_absorbs) {
-      end_in(ctx, ph, t, EndState::absorbed_rear_medium);  // only the rear medium can absorb (a metal)
+      // only the rear medium can absorb (a metal)
+      end_in(ctx, ph, t, opening ? EndState::absorbed_rear_opening_medium : EndState::absorbed_rear_medium);
       return Outcome::ended;
     }
     if (diffuse) {
@@ -339,7 +346,11 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   // absorbed in one of the films
   const int layer = table.pick_absorbing_layer(cos_i, ws, wp, rng.uniform());
-  end_in(ctx, ph, t, front ? EndState::absorbed_front_film : EndState::absorbed_rear_film, layer);
+  end_in(ctx, ph, t,
+         front     ? EndState::absorbed_front_film
+         : opening ? EndState::absorbed_rear_opening_film
+                   : EndState::absorbed_rear_film,
+         layer);
   return Outcome::ended;
 }
 
@@ -394,10 +405,12 @@ void launch(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& r
 }
 
 void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& rng, std::uint32_t group,
-               WavelengthTally& t) {
+               const MacroPosition& start, WavelengthTally& t) {
   Photon ph;
   ph.group = group;
+  ph.macro = start;
   launch(ctx, collimated, rng, ph);
+  const bool macro = ctx.macro.active();
   const WaferModel& M = *ctx.model;
   const double alpha = ctx.optics->alpha_per_um;
   const TallyLayout& L = *ctx.layout;
@@ -416,6 +429,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
       }
       ++ph.passes;
       ++t.bulk_passes;
+      if (macro) move_macro(ctx.macro, ph.macro, path * ph.d.x(), path * ph.d.y());
       const SurfaceModel& next = down ? M.rear : M.front;
       if (ctx.randomize_lateral) {
         ph.p.x() = next.period * rng.uniform();
@@ -445,6 +459,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
     unsigned prim = 0;
     const Eigen::Vector3d start = ph.p;
     const ZoneExit ex = cross_zone(front ? *ctx.front_scene : *ctx.rear_scene, sm, ph, path, prim);
+    if (macro) move_macro(ctx.macro, ph.macro, path * ph.d.x(), path * ph.d.y());
     if (ph.medium == Medium::silicon) {
       const double f = absorb_along(ph, alpha, path);
       if (f >= 0) {
@@ -516,7 +531,14 @@ TraceContext make_trace_context(const Scene& scene, const WaferModel& model, con
   c.track_polarization = scene.run.track_polarization;
   c.seed = scene.run.seed;
   c.wavelength_index = wavelength_index;
+  c.macro = scene_macro_frame(scene);
+  c.rear_pattern = scene.rear_pattern ? &scene.rear_pattern->geometry : nullptr;
   return c;
+}
+
+MacroFrame scene_macro_frame(const Scene& scene) {
+  if (!scene.rear_pattern) return {};
+  return {pattern_period_x(scene.rear_pattern->geometry), pattern_period_y(scene.rear_pattern->geometry)};
 }
 
 void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t end, WavelengthTally& tally) {
@@ -525,7 +547,12 @@ void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t e
     PhotonRng rng(ctx.seed, ctx.variant, ctx.wavelength_index, i);
     const auto group = std::uint32_t(i % std::uint64_t(ctx.layout->photon_groups));
     ++tally.photons;
-    trace_one(ctx, collimated, rng, group, tally);
+    MacroPosition start;
+    if (ctx.macro.active()) {  // from a stream of its own: the transport's numbers stay those of a plain scene
+      PhotonRng side(ctx.seed, ctx.variant, ctx.wavelength_index, i, 1);
+      start = macro_start(ctx.macro, side.uniform(), side.uniform());
+    }
+    trace_one(ctx, collimated, rng, group, start, tally);
   }
 }
 

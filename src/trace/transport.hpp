@@ -5,6 +5,7 @@
 #include <cstdint>
 
 #include "io/scene.hpp"
+#include "trace/macro_frame.hpp"
 #include "trace/embree_tile.hpp"
 #include "trace/optical_tables.hpp"
 #include "trace/tallies.hpp"
@@ -31,7 +32,13 @@ struct TraceContext {
   bool randomize_lateral = true;
   bool track_polarization = true;
   std::uint64_t seed = 1, variant = 0, wavelength_index = 0;
+  /// The macro frame (off without patterns) and the rear's openings (null: a uniform rear).
+  MacroFrame macro;
+  const RearPatternGeometry* rear_pattern = nullptr;
 };
+
+/// The macro frame of a scene: one period of its rear pattern; off without one.
+MacroFrame scene_macro_frame(const Scene& scene);
 
 TraceContext make_trace_context(const Scene& scene, const WaferModel& model, const TileScene& front,
                                 const TileScene& rear, const WavelengthOptics& optics,
