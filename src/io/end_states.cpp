@@ -73,6 +73,13 @@ std::vector<EndBin> opening_reflector(const EndStateInfo& e, const Scene& s) {
                  e.group}};
 }
 
+// [front.grid]: one bin each in scenes with a grid, none otherwise.
+std::vector<EndBin> grid_state(const EndStateInfo& e, const Scene& s) {
+  if (!s.front_grid) return {};
+  return {EndBin{e.state, 0, std::string(e.name), fmt::format("{} ({})", e.meaning, s.front_grid->metal.describe()),
+                 e.group}};
+}
+
 using G = EndGroup;
 const std::array<EndStateInfo, kEndStateCount> kTable = {{
     {EndState::absorbed_silicon, "absorbed_silicon", "absorbed in the silicon bulk: this is J_G", G::generation,
@@ -104,6 +111,17 @@ const std::array<EndStateInfo, kEndStateCount> kTable = {{
      "absorbed by the measured reflectance of the rear openings (rear.pattern.medium = { reflectance = ... }; only "
      "in such scenes)",
      G::parasitic, opening_reflector},
+    {EndState::absorbed_grid, "absorbed_grid",
+     "light from the ambient absorbed in the front grid (fingers, busbars; only in scenes with [front.grid])",
+     G::parasitic, grid_state},
+    {EndState::reflected_grid, "reflected_grid",
+     "light from the ambient reflected away by the front grid without entering the silicon (only in scenes with "
+     "[front.grid])",
+     G::reflection, grid_state},
+    {EndState::absorbed_front_contact, "absorbed_front_contact",
+     "light from inside the silicon absorbed in the metal where the grid contacts the front (only in scenes with "
+     "[front.grid])",
+     G::parasitic, grid_state},
     {EndState::transmitted_rear, "transmitted_rear", "left through the rear into a non-absorbing medium",
      G::transmission, single},
     {EndState::unresolved, "unresolved", "stopped at run.max_bounces interactions (reported; 0 on the shipped scenes)",

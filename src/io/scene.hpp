@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "geometry/texture_descriptor.hpp"
+#include "io/front_grid.hpp"
 #include "io/rear_pattern.hpp"
 #include "io/rear_reflector.hpp"
 
@@ -72,6 +73,14 @@ struct RearPattern {
   std::vector<Film> films;                 ///< in the openings, from the silicon outwards
   MaterialRef medium;                      ///< below the openings' films (default air)
   std::optional<RearReflector> reflector;  ///< medium = { reflectance = ... } in the openings
+};
+
+/// [front.grid]: the front metallisation (io/front_grid.hpp).
+struct FrontGrid {
+  FrontGridGeometry geometry;
+  MaterialRef metal;                                    ///< optical constants of the metal
+  SurfaceScattering scattering = SurfaceScattering::specular;  ///< of light the metal reflects
+  double diffuse_fraction = 0;                          ///< for mixed
 };
 
 enum class SpectrumKind { am15g, am15d, am0, file };
@@ -146,6 +155,8 @@ struct Scene {
   std::optional<RearReflector> rear_reflector;
   /// [rear.pattern]: openings of another region in the rear (absent: a uniform rear).
   std::optional<RearPattern> rear_pattern;
+  /// [front.grid]: fingers and busbars on the front (absent: no grid).
+  std::optional<FrontGrid> front_grid;
   Illumination illumination;
   RunSettings run;
 };

@@ -106,6 +106,7 @@ class SceneReader {
   std::optional<RearReflector> reflector_;  // rear.medium = { reflectance = ... }
   std::string reflector_where_;
   std::optional<RearPattern> pattern_;  // [rear.pattern]
+  std::optional<FrontGrid> grid_;       // [front.grid]
   std::string pattern_reflector_where_;
   std::vector<MaterialUse> uses_;
   std::string wavelengths_where_;
@@ -260,6 +261,7 @@ class SceneReader {
   RearReflector read_rear_reflector(const toml::table& t, const std::string& key);
   std::vector<Film> read_films(const toml::table& t, const std::string& path);
   RearPattern read_rear_pattern(const toml::table& t, const std::string& path);
+  FrontGrid read_front_grid(const toml::table& t, const std::string& path);
   Texture read_texture(const toml::table& surface, const std::string& path, const toml::node* kind_node);
   double texture_number(const toml::node& n, const std::string& key, const geometry::ParamSpec& spec) const;
   void read_illumination(const toml::table* t, Illumination& ill, std::pair<double, double>& spectrum_range,
@@ -487,6 +489,8 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
   if (rear_medium) {
     allowed.push_back("medium");
     allowed.push_back("pattern");
+  } else {
+    allowed.push_back("grid");
   }
   check_keys(tb, path, allowed);
 
@@ -523,6 +527,8 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
   }
 
   s.films = read_films(tb, path);
+  if (!rear_medium)
+    if (const toml::table* gt = sub_table(tb, path, "grid")) grid_ = read_front_grid(*gt, path + ".grid");
   if (rear_medium) {
     const toml::node* mn = tb.get("medium");
     if (mn && mn->is_string() && mn->as_string()->get() == "perfect_mirror") {
@@ -597,6 +603,62 @@ std::vector<Film> SceneReader::read_films(const toml::table& tb, const std::stri
     }
   }
   return films;
+}
+
+FrontGrid SceneReader::read_front_grid(const toml::table& t, const std::string& path) {
+  check_keys(t, path, {"finger_shape", "finger_width", "finger_height", "finger_pitch", "busbar_pitch",
+                       "busbar_width", "material", "scattering", "diffuse_fraction"});
+  FrontGrid grid;
+  FrontGridGeometry& g = grid.geometry;
+  g.shape = word_or(t, path, "finger_shape", kFingerShapeWords, FingerShape::rectangle);
+  const auto required_length = [&](const char* key, const char* example) {
+    const toml::node* n = t.get(key);
+    if (!n) fail_missing(t, path + "." + key, fmt::format("a length > 0, e.g. \"{}\"", example));
+    return length_um_checked(*n, path + "." + key, true, example);
+  };
+  g.finger_width_um = required_length("finger_width", "40 um");
+  const bool wire = g.shape == FingerShape::round_wire;
+  if (wire) {
+    if (const toml::node* n = t.get("finger_height"))
+      fail_value(*n, path + ".finger_height",
+                 "a round wire's height is its diameter (finger_width); allowed: no finger_height with "
+                 "finger_shape = \"round_wire\"");
+    g.finger_height_um = g.finger_width_um;
+  } else {
+    g.finger_height_um = required_length("finger_height", "15 um");
+  }
+  const toml::node* pn = t.get("finger_pitch");
+  g.finger_pitch_um = required_length("finger_pitch", "1.5 mm");
+  if (!(g.finger_pitch_um > g.finger_width_um))
+    fail_value(*pn, path + ".finger_pitch",
+               fmt::format("not larger than finger_width ({} µm); allowed: a pitch > finger_width",
+                           format_number(g.finger_width_um)));
+  const toml::node* bp = t.get("busbar_pitch");
+  const toml::node* bw = t.get("busbar_width");
+  if (bp || bw) {
+    if (!bp) fail_missing(t, path + ".busbar_pitch", "the busbar pitch (a length > busbar_width) with busbar_width");
+    if (!bw) fail_missing(t, path + ".busbar_width", "the busbar width (a length > 0) with busbar_pitch");
+    g.busbar_pitch_um = length_um_checked(*bp, path + ".busbar_pitch", true, "39 mm");
+    g.busbar_width_um = length_um_checked(*bw, path + ".busbar_width", true, "1 mm");
+    if (!(g.busbar_pitch_um > g.busbar_width_um))
+      fail_value(*bp, path + ".busbar_pitch",
+                 fmt::format("not larger than busbar_width ({} µm); allowed: a pitch > busbar_width",
+                             format_number(g.busbar_width_um)));
+  }
+  const toml::node* mn = t.get("material");
+  if (!mn) fail_missing(t, path + ".material", "the metal's optical constants, e.g. \"ag_mcpeak2015\"");
+  grid.metal = material(mn, path + ".material", "", t);
+  grid.scattering = word_or(t, path, "scattering", kScatteringWords, SurfaceScattering::specular);
+  const toml::node* df = t.get("diffuse_fraction");
+  if (grid.scattering == SurfaceScattering::mixed) {
+    if (!df) fail_missing(t, path + ".diffuse_fraction", "a number in [0, 1] with scattering = \"mixed\"");
+    grid.diffuse_fraction = number(*df, path + ".diffuse_fraction", "a number in [0, 1]");
+    if (!(grid.diffuse_fraction >= 0 && grid.diffuse_fraction <= 1))
+      fail_value(*df, path + ".diffuse_fraction", "out of range; allowed: a number in [0, 1]");
+  } else if (df) {
+    fail_value(*df, path + ".diffuse_fraction", "allowed only with scattering = \"mixed\"");
+  }
+  return grid;
 }
 
 RearPattern SceneReader::read_rear_pattern(const toml::table& t, const std::string& path) {
@@ -925,6 +987,7 @@ Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ig
   s.rear_perfect_mirror = rear_mirror_;
   s.rear_reflector = reflector_;
   s.rear_pattern = pattern_;
+  s.front_grid = grid_;
 
   std::pair<double, double> spectrum_range;
   std::string spectrum_where, spectrum_shown;

@@ -20,6 +20,11 @@ namespace lumtrap {
 
 struct MacroFrame {
   double period_x = 0, period_y = 0;  ///< µm; 0: the scene has no pattern (the frame is off)
+  /// false when the patterns' periods along that axis have no common period
+  /// (within 10 000 of the shorter): positions are then not wrapped, and
+  /// start positions are drawn over period_x (period_y) = 1000 × the longest
+  /// period, where the pairs of pattern phases are uniform to about 1e-3.
+  bool wrap_x = true, wrap_y = true;
   bool active() const { return period_x > 0 && period_y > 0; }
 };
 
@@ -36,13 +41,24 @@ inline double wrap_macro(double x, double L) {
 
 /// Moves a position by (dx, dy) µm, periodically.
 inline void move_macro(const MacroFrame& f, MacroPosition& m, double dx, double dy) {
-  m.x = wrap_macro(m.x + dx, f.period_x);
-  m.y = wrap_macro(m.y + dy, f.period_y);
+  m.x = f.wrap_x ? wrap_macro(m.x + dx, f.period_x) : m.x + dx;
+  m.y = f.wrap_y ? wrap_macro(m.y + dy, f.period_y) : m.y + dy;
 }
 
 /// A uniformly distributed start position from two uniform numbers in (0, 1].
 inline MacroPosition macro_start(const MacroFrame& f, double u1, double u2) {
   return {wrap_macro(u1 * f.period_x, f.period_x), wrap_macro(u2 * f.period_y, f.period_y)};
 }
+
+struct Scene;  // io/scene.hpp
+
+/// The macro frame of a scene: one common period of its rear pattern and its
+/// front grid along each axis; off when it has neither.
+MacroFrame scene_macro_frame(const Scene& scene);
+
+/// The shortest common multiple of two periods a, b > 0 (µm) within 10 000
+/// multiples of the shorter, relative tolerance 1e-9; 0 when there is none.
+/// A period <= 0 counts as absent (the other is returned).
+double common_period(double a, double b);
 
 }  // namespace lumtrap

@@ -23,6 +23,7 @@ SceneMaterials load_scene_materials(const Scene& scene) {
   m.rear_medium = material_from_ref(scene.rear_medium, scene);
   for (const auto& f : scene.front.films) m.front_films.push_back(material_from_ref(f.material, scene));
   for (const auto& f : scene.rear.films) m.rear_films.push_back(material_from_ref(f.material, scene));
+  if (scene.front_grid) m.grid_metal = material_from_ref(scene.front_grid->metal, scene);
   if (scene.rear_pattern) {
     m.opening_medium = material_from_ref(scene.rear_pattern->medium, scene);
     for (const auto& f : scene.rear_pattern->films) m.opening_films.push_back(material_from_ref(f.material, scene));
@@ -159,6 +160,13 @@ WavelengthOptics make_wavelength_optics(const Scene& scene, const SceneMaterials
     throw std::runtime_error(fmt::format("the optical constants at {} nm are not finite numbers; media: {}; {}",
                                          fmt::format("{:g}", lambda), stack_media(scene, true),
                                          stack_media(scene, false)));
+  if (scene.front_grid) {
+    const cplx n_metal = mats.grid_metal.index_at(lambda);
+    o.grid_from_ambient = tabulate_stack(FilmStack{n_amb, {}, n_metal}, lambda, Incidence::from_a, samples);
+    o.front_contact = tabulate_stack(FilmStack{n_si, {}, n_metal}, lambda, Incidence::from_a, samples);
+    require_finite_table(o.grid_from_ambient, scene, true, lambda);
+    require_finite_table(o.front_contact, scene, true, lambda);
+  }
   if (scene.rear_pattern) {
     // The openings: the same rear with the openings' films and medium.
     Scene opening = scene;

@@ -17,6 +17,7 @@ struct SceneMaterials {
   /// [rear.pattern]: the openings' films and medium (empty without a pattern).
   std::vector<Material> opening_films;
   Material opening_medium;
+  Material grid_metal;  ///< [front.grid] metal (unset without a grid)
 };
 
 SceneMaterials load_scene_materials(const Scene& scene);
@@ -45,6 +46,10 @@ struct WavelengthOptics {
   /// The rear in the openings of [rear.pattern] (same facet classes as `rear`);
   /// unused without a pattern.
   SurfaceOptics rear_opening;
+  /// [front.grid]: ambient | metal (light from the ambient meeting the grid)
+  /// and silicon | metal (light from the silicon meeting a contact), no
+  /// films; unused without a grid.
+  StackTable grid_from_ambient, front_contact;
 };
 
 /// Table of a perfect mirror (perfect conductor: r_s = -1, r_p = +1 in the

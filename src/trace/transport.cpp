@@ -5,6 +5,7 @@
 #include <limits>
 #include <numbers>
 
+#include "trace/front_grid_hit.hpp"
 #include "trace/polarization.hpp"
 #include "trace/rng.hpp"
 #include "trace/sampling.hpp"
@@ -259,7 +260,11 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   if (so.reflector && !front)
     return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.eps, ph, rng, t,
                                opening ? EndState::absorbed_rear_opening_reflector : EndState::absorbed_rear_reflector);
-  const StackTable& table = (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
+  // Light from the silicon under a finger or busbar meets the contact:
+  // silicon | metal, no films (io/front_grid.hpp).
+  const bool contact = front && from_inside && ctx.grid && on_contact(*ctx.grid, ph.macro.x, ph.macro.y);
+  const StackTable& table =
+      contact ? ctx.optics->front_contact : (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
   const double n1 = from_inside ? so.n_inside : so.n_outside;
   const double n2 = from_inside ? so.n_outside : so.n_inside;
   const double eta = n1 / n2;
@@ -275,7 +280,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   const double cos_i = diffuse ? std::sqrt(rng.uniform()) : std::min(1.0, std::abs(dn));
   const double sin2t = eta * eta * (1.0 - cos_i * cos_i);
   InterfaceResponse r;
-  if (so.ideal) {  // exact, no table: everything refracts unless totally reflected
+  if (so.ideal && !contact) {  // exact, no table: everything refracts unless totally reflected
     const cplx one(1, 0), zero(0, 0);
     r = sin2t >= 1.0 ? InterfaceResponse{one, one, zero, zero, 1, 1, 0, 0}
                      : InterfaceResponse{zero, zero, one, one, 0, 0, 1, 1};
@@ -318,6 +323,10 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   if (xi <= R + T || table.layers == 0) {  // transmission (no films: nothing else can happen)
     const bool to_outside = from_inside;
+    if (contact) {
+      end_in(ctx, ph, t, EndState::absorbed_front_contact);
+      return Outcome::ended;
+    }
     if (to_outside && so.outside_absorbs) {
       // only the rear medium can absorb (a metal)
       end_in(ctx, ph, t, opening ? EndState::absorbed_rear_opening_medium : EndState::absorbed_rear_medium);
@@ -404,12 +413,72 @@ void launch(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& r
   ph.optical_depth_left = -std::log(rng.uniform());
 }
 
+// Light from the ambient on its way to the cell plane, meeting the front grid
+// (io/front_grid.hpp, trace/front_grid_hit.hpp). On entry ph.macro is the
+// point of the cell plane the light would reach without a grid and ph.d its
+// direction. The metal reflects (ambient | metal Fresnel at the local angle,
+// or Lambertian by the grid's scattering) or absorbs; light reflected
+// downwards past the bodies lands on the cell beside them and goes on from
+// there (ph.macro, ph.d, ph.E updated); light leaving upwards is reflected
+// by the grid. Reflected light that meets another body is traced to it too.
+Outcome meet_grid_from_ambient(const TraceContext& ctx, Photon& ph, PhotonRng& rng, WavelengthTally& t) {
+  const FrontGridGeometry& g = *ctx.grid;
+  const double top = grid_top(g);
+  Eigen::Vector3d o = Eigen::Vector3d(ph.macro.x, ph.macro.y, 0) - ph.d * ((top + 1.0) / -ph.d.z());
+  constexpr int kMaxGridBounces = 100;
+  for (int bounce = 0; bounce < kMaxGridBounces; ++bounce) {
+    const GridHit h = first_grid_hit(g, o, ph.d);
+    if (!h.hit) {
+      if (ph.d.z() >= 0) {
+        end_in(ctx, ph, t, EndState::reflected_grid);
+        return Outcome::ended;
+      }
+      const Eigen::Vector3d land = o + (-o.z() / ph.d.z()) * ph.d;
+      MacroPosition m;
+      move_macro(ctx.macro, m, land.x(), land.y());
+      ph.macro = m;
+      return Outcome::continues;
+    }
+    const Eigen::Vector3d& m = h.normal;  // outward: on the incident side
+    const bool diffuse = ctx.grid_scatter.kind == SurfaceScattering::lambertian ||
+                         (ctx.grid_scatter.kind == SurfaceScattering::mixed &&
+                          rng.uniform() <= ctx.grid_scatter.diffuse_fraction);
+    const double cos_i = diffuse ? std::sqrt(rng.uniform()) : std::clamp(-ph.d.dot(m), 0.0, 1.0);
+    const InterfaceResponse r = ctx.optics->grid_from_ambient.at(cos_i);
+    const SPComponents sp = decompose(ph.E, ph.d, m);
+    const bool carry = ctx.track_polarization && !diffuse;
+    double ws = 0.5, wp = 0.5;
+    if (carry) {
+      ws = std::norm(sp.Es);
+      wp = std::norm(sp.Ep);
+      const double wsum = ws + wp;
+      ws /= wsum;
+      wp /= wsum;
+    }
+    if (rng.uniform() > r.Rs * ws + r.Rp * wp) {
+      end_in(ctx, ph, t, EndState::absorbed_grid);
+      return Outcome::ended;
+    }
+    if (diffuse) {
+      ph.d = cosine_weighted(m, rng.uniform(), rng.uniform());
+      ph.E = random_linear_field(ph.d, rng);
+    } else {
+      ph.d = (ph.d + 2.0 * cos_i * m).normalized();
+      set_field(ph, sp, r.rs, r.rp, carry, rng);
+    }
+    o = h.point + 1e-6 * m;
+  }
+  end_in(ctx, ph, t, EndState::unresolved);
+  return Outcome::ended;
+}
+
 void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& rng, std::uint32_t group,
                const MacroPosition& start, WavelengthTally& t) {
   Photon ph;
   ph.group = group;
   ph.macro = start;
   launch(ctx, collimated, rng, ph);
+  if (ctx.grid && meet_grid_from_ambient(ctx, ph, rng, t) == Outcome::ended) return;
   const bool macro = ctx.macro.active();
   const WaferModel& M = *ctx.model;
   const double alpha = ctx.optics->alpha_per_um;
@@ -533,13 +602,13 @@ TraceContext make_trace_context(const Scene& scene, const WaferModel& model, con
   c.wavelength_index = wavelength_index;
   c.macro = scene_macro_frame(scene);
   c.rear_pattern = scene.rear_pattern ? &scene.rear_pattern->geometry : nullptr;
+  if (scene.front_grid) {
+    c.grid = &scene.front_grid->geometry;
+    c.grid_scatter = {scene.front_grid->scattering, scene.front_grid->diffuse_fraction};
+  }
   return c;
 }
 
-MacroFrame scene_macro_frame(const Scene& scene) {
-  if (!scene.rear_pattern) return {};
-  return {pattern_period_x(scene.rear_pattern->geometry), pattern_period_y(scene.rear_pattern->geometry)};
-}
 
 void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t end, WavelengthTally& tally) {
   const LaunchFrame collimated = collimated_frame(*ctx.illumination);

@@ -35,10 +35,10 @@ struct TraceContext {
   /// The macro frame (off without patterns) and the rear's openings (null: a uniform rear).
   MacroFrame macro;
   const RearPatternGeometry* rear_pattern = nullptr;
+  /// The front grid (null: none) and how its metal scatters reflected light.
+  const FrontGridGeometry* grid = nullptr;
+  SurfaceScatter grid_scatter;
 };
-
-/// The macro frame of a scene: one period of its rear pattern; off without one.
-MacroFrame scene_macro_frame(const Scene& scene);
 
 TraceContext make_trace_context(const Scene& scene, const WaferModel& model, const TileScene& front,
                                 const TileScene& rear, const WavelengthOptics& optics,

@@ -82,8 +82,8 @@ TEST(Determinism, CellFeaturesKeepThreadAndSplitInvariance) {
   EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_rear_reflector), 0u);
 }
 
-// A patterned rear (macro frame, start position from its own random stream)
-// keeps both invariances.
+// A front grid and a patterned rear (macro frame, start position from its
+// own random stream) keep both invariances.
 const char* kPatternScene = R"(
 [wafer]
 thickness = "160 um"
@@ -94,6 +94,13 @@ medium = "al_rakic1995"
 [[rear.films]]
 material = "sinx_pecvd_n209"
 thickness = "100 nm"
+[front.grid]
+finger_shape = "round_wire"
+finger_width = "40 um"
+finger_pitch = "300 um"
+busbar_pitch = "3 mm"
+busbar_width = "200 um"
+material = "ag_mcpeak2015"
 [rear.pattern]
 layout = "dots"
 lattice = "hexagonal"
@@ -107,7 +114,7 @@ wavelengths = ["1100 nm"]
 seed = 42
 )";
 
-TEST(Determinism, RearPatternKeepsThreadAndSplitInvariance) {
+TEST(Determinism, GridAndRearPatternKeepThreadAndSplitInvariance) {
   auto run = prepare_run(test::scene_from_text(kPatternScene, "pattern"));
   const auto one = with_threads(*run, 1);
   const auto two = with_threads(*run, 2);
@@ -120,6 +127,8 @@ TEST(Determinism, RearPatternKeepsThreadAndSplitInvariance) {
   EXPECT_TRUE(whole == parts);
   EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_rear_opening_medium), 0u);
   EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_rear_medium), 0u);
+  EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_grid), 0u);
+  EXPECT_GT(ended_in(run->layout, whole, EndState::reflected_grid), 0u);
 }
 
 TEST(Determinism, DifferentSeedsDiffer) {
