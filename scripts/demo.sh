@@ -4,7 +4,8 @@
 # reference, plus the ideal Lambertian limit, and a small sweep (front SiNx
 # thickness x rear metal) and an etch study (three recipes that differ in tip
 # rounding, facet angle and flat fraction) and a fit of two film thicknesses
-# to a synthetic reflectance curve; then draws every result with `lumtrap plot` and
+# to a synthetic reflectance curve, and four cells as built (front grid,
+# passivated rear with 2, 5, 10 % line contacts or dot contacts); then draws every result with `lumtrap plot` and
 # writes a self-contained HTML report of each (`lumtrap report`). Results go
 # to results/demo/.
 set -euo pipefail
@@ -25,6 +26,11 @@ for s in "${ETCH[@]}"; do
   echo "== etch study: scenes/$s.toml (texture statistics, then ray tracing)"
   "$BIN" texture "scenes/$s.toml" -o "$OUT/$s-texture" --overwrite > /dev/null
   "$BIN" run "scenes/$s.toml" -o "$OUT/$s" --overwrite
+done
+CELLS=(k7_cell_line_contacts_02pct k7_cell_line_contacts_05pct k7_cell_line_contacts_10pct k7_cell_dot_contacts)
+for s in "${CELLS[@]}"; do
+  echo "== cell as built: scenes/$s.toml (front grid, passivated rear with contacts; few photons)"
+  "$BIN" run "scenes/$s.toml" -o "$OUT/$s" --overwrite --photons 1500
 done
 SWEEP="$OUT/k7_sinx_rear_sweep"
 echo "== sweep: scenes/k7_sinx_rear_sweep.toml (front SiNx 65-85 nm x Al/Ag rear, few photons)"
@@ -49,6 +55,9 @@ python3 scripts/compare_results.py "$OUT/k7_polished_reference-planar" "$OUT/k7_
 echo
 echo "== line K7 etch study: shape of the pyramids (model estimates, mA/cm2 ± standard error)"
 python3 scripts/compare_results.py "${ETCH[@]/#/$OUT/}"
+echo
+echo "== line K7 cells as built: grid shading and rear contacts 2 / 5 / 10 % lines, dots (model estimates, mA/cm2 ± standard error)"
+python3 scripts/compare_results.py "${CELLS[@]/#/$OUT/}"
 echo
 echo "Result folders are in $OUT/ (spectral.csv, summary.json, generation.csv, escape_angles.csv, ...),"
 echo "each with its charts in plots/ and a report.html to open in a browser; comparison charts in"

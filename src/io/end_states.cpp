@@ -52,6 +52,34 @@ std::vector<EndBin> rear_reflector(const EndStateInfo& e, const Scene& s) {
                  e.group}};
 }
 
+// [rear.pattern]: one bin per film of the openings, and one for their
+// medium or their measured reflector; none in scenes without a pattern.
+std::vector<EndBin> opening_films(const EndStateInfo& e, const Scene& s) {
+  if (!s.rear_pattern) return {};
+  return films(e, s.rear_pattern->films, "rear.pattern");
+}
+std::vector<EndBin> opening_medium(const EndStateInfo& e, const Scene& s) {
+  if (!s.rear_pattern || s.rear_pattern->reflector) return {};
+  return {EndBin{e.state, 0, std::string(e.name), fmt::format("{} ({})", e.meaning, s.rear_pattern->medium.describe()),
+                 e.group}};
+}
+std::vector<EndBin> opening_reflector(const EndStateInfo& e, const Scene& s) {
+  if (!s.rear_pattern || !s.rear_pattern->reflector) return {};
+  const RearReflector& r = *s.rear_pattern->reflector;
+  return {EndBin{e.state, 0, std::string(e.name),
+                 fmt::format("{} (R = {}, diffuse fraction {})", e.meaning,
+                             r.file.empty() ? format_number(r.constant_reflectance) : r.file.filename().string(),
+                             format_number(r.diffuse_fraction)),
+                 e.group}};
+}
+
+// [front.grid]: one bin each in scenes with a grid, none otherwise.
+std::vector<EndBin> grid_state(const EndStateInfo& e, const Scene& s) {
+  if (!s.front_grid) return {};
+  return {EndBin{e.state, 0, std::string(e.name), fmt::format("{} ({})", e.meaning, s.front_grid->metal.describe()),
+                 e.group}};
+}
+
 using G = EndGroup;
 const std::array<EndStateInfo, kEndStateCount> kTable = {{
     {EndState::absorbed_silicon, "absorbed_silicon", "absorbed in the silicon bulk: this is J_G", G::generation,
@@ -71,6 +99,29 @@ const std::array<EndStateInfo, kEndStateCount> kTable = {{
     {EndState::absorbed_rear_reflector, "absorbed_rear_reflector",
      "absorbed by a rear given by its measured reflectance (rear.medium = { reflectance = ... }; only in such scenes)",
      G::parasitic, rear_reflector},
+    {EndState::absorbed_rear_opening_film, "absorbed_rear_opening_film",
+     "absorbed in film k of the rear openings (rear.pattern.films[k], counted from the silicon, from 0; only in "
+     "scenes with [rear.pattern])",
+     G::parasitic, opening_films},
+    {EndState::absorbed_rear_opening_medium, "absorbed_rear_opening_medium",
+     "absorbed in the medium of the rear openings (rear.pattern.medium, e.g. the contact metal; only in scenes with "
+     "[rear.pattern])",
+     G::parasitic, opening_medium},
+    {EndState::absorbed_rear_opening_reflector, "absorbed_rear_opening_reflector",
+     "absorbed by the measured reflectance of the rear openings (rear.pattern.medium = { reflectance = ... }; only "
+     "in such scenes)",
+     G::parasitic, opening_reflector},
+    {EndState::absorbed_grid, "absorbed_grid",
+     "light from the ambient absorbed in the front grid (fingers, busbars; only in scenes with [front.grid])",
+     G::parasitic, grid_state},
+    {EndState::reflected_grid, "reflected_grid",
+     "light from the ambient reflected away by the front grid without entering the silicon (only in scenes with "
+     "[front.grid])",
+     G::reflection, grid_state},
+    {EndState::absorbed_front_contact, "absorbed_front_contact",
+     "light from inside the silicon absorbed in the metal where the grid contacts the front (only in scenes with "
+     "[front.grid])",
+     G::parasitic, grid_state},
     {EndState::transmitted_rear, "transmitted_rear", "left through the rear into a non-absorbing medium",
      G::transmission, single},
     {EndState::unresolved, "unresolved", "stopped at run.max_bounces interactions (reported; 0 on the shipped scenes)",
@@ -111,7 +162,7 @@ EndBinLayout end_bin_layout(const Scene& scene) {
 std::string end_state_markdown() {
   std::string s = "| end state | group | meaning |\n|---|---|---|\n";
   for (const EndStateInfo& e : kTable) {
-    const bool per_film = e.bins == front_films || e.bins == rear_films;
+    const bool per_film = e.bins == front_films || e.bins == rear_films || e.bins == opening_films;
     s += fmt::format("| `{}{}` | {} | {} |\n", e.name, per_film ? "<k>_<material>" : "", group_name(e.group),
                      e.meaning);
   }

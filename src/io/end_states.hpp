@@ -33,11 +33,17 @@ enum class EndState : std::uint8_t {
   absorbed_rear_film,    ///< absorbed in a rear film (one bin per film)
   absorbed_rear_medium,  ///< absorbed in an absorbing rear medium (a metal)
   absorbed_rear_reflector,  ///< absorbed by a rear given by its measured reflectance (no bin otherwise)
+  absorbed_rear_opening_film,       ///< absorbed in a film of the rear openings (one bin per film; patterned rears only)
+  absorbed_rear_opening_medium,     ///< absorbed in the medium of the rear openings (patterned rears only)
+  absorbed_rear_opening_reflector,  ///< absorbed by a measured reflector in the rear openings (patterned rears only)
+  absorbed_grid,         ///< light from the ambient absorbed in the front grid (grid scenes only)
+  reflected_grid,        ///< light from the ambient reflected away by the front grid (grid scenes only)
+  absorbed_front_contact,  ///< light from the silicon absorbed where the grid contacts it (grid scenes only)
   transmitted_rear,      ///< left through the rear into a non-absorbing medium
   unresolved,            ///< stopped at run.max_bounces interactions
   lost,                  ///< slipped through the mesh by numerical error
 };
-inline constexpr std::size_t kEndStateCount = 10;
+inline constexpr std::size_t kEndStateCount = 16;
 
 /// How the states are grouped in tables and plots.
 enum class EndGroup {

@@ -12,6 +12,8 @@
 #include <vector>
 
 #include "geometry/texture_descriptor.hpp"
+#include "io/front_grid.hpp"
+#include "io/rear_pattern.hpp"
 #include "io/rear_reflector.hpp"
 
 namespace lumtrap {
@@ -62,6 +64,23 @@ struct Surface {
   Conformality conformality = Conformality::conformal;
   SurfaceScattering scattering = SurfaceScattering::specular;
   double diffuse_fraction = 0.0;   ///< for mixed
+};
+
+/// [rear.pattern]: openings of a second rear region, with their own films
+/// and medium, in the rear of [rear] (io/rear_pattern.hpp).
+struct RearPattern {
+  RearPatternGeometry geometry;
+  std::vector<Film> films;                 ///< in the openings, from the silicon outwards
+  MaterialRef medium;                      ///< below the openings' films (default air)
+  std::optional<RearReflector> reflector;  ///< medium = { reflectance = ... } in the openings
+};
+
+/// [front.grid]: the front metallisation (io/front_grid.hpp).
+struct FrontGrid {
+  FrontGridGeometry geometry;
+  MaterialRef metal;                                    ///< optical constants of the metal
+  SurfaceScattering scattering = SurfaceScattering::specular;  ///< of light the metal reflects
+  double diffuse_fraction = 0;                          ///< for mixed
 };
 
 enum class SpectrumKind { am15g, am15d, am0, file };
@@ -134,6 +153,10 @@ struct Scene {
   /// rear.medium = { reflectance = ..., diffuse_fraction = ... }: a measured
   /// internal reflectance instead of films and a medium (rear_reflector.hpp).
   std::optional<RearReflector> rear_reflector;
+  /// [rear.pattern]: openings of another region in the rear (absent: a uniform rear).
+  std::optional<RearPattern> rear_pattern;
+  /// [front.grid]: fingers and busbars on the front (absent: no grid).
+  std::optional<FrontGrid> front_grid;
   Illumination illumination;
   RunSettings run;
 };

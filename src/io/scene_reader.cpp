@@ -105,6 +105,9 @@ class SceneReader {
   bool rear_mirror_ = false;  // rear.medium = "perfect_mirror"
   std::optional<RearReflector> reflector_;  // rear.medium = { reflectance = ... }
   std::string reflector_where_;
+  std::optional<RearPattern> pattern_;  // [rear.pattern]
+  std::optional<FrontGrid> grid_;       // [front.grid]
+  std::string pattern_reflector_where_;
   std::vector<MaterialUse> uses_;
   std::string wavelengths_where_;
 
@@ -256,6 +259,9 @@ class SceneReader {
   void read_wafer(const toml::table* t, Wafer& w);
   Surface read_surface(const toml::table* t, const std::string& path, MaterialRef* rear_medium);
   RearReflector read_rear_reflector(const toml::table& t, const std::string& key);
+  std::vector<Film> read_films(const toml::table& t, const std::string& path);
+  RearPattern read_rear_pattern(const toml::table& t, const std::string& path);
+  FrontGrid read_front_grid(const toml::table& t, const std::string& path);
   Texture read_texture(const toml::table& surface, const std::string& path, const toml::node* kind_node);
   double texture_number(const toml::node& n, const std::string& key, const geometry::ParamSpec& spec) const;
   void read_illumination(const toml::table* t, Illumination& ill, std::pair<double, double>& spectrum_range,
@@ -480,7 +486,12 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
   for (const geometry::TextureDescriptor* d : geometry::texture_descriptors())
     if (!d->table.empty() && std::find(allowed.begin(), allowed.end(), d->table) == allowed.end())
       allowed.push_back(d->table);
-  if (rear_medium) allowed.push_back("medium");
+  if (rear_medium) {
+    allowed.push_back("medium");
+    allowed.push_back("pattern");
+  } else {
+    allowed.push_back("grid");
+  }
   check_keys(tb, path, allowed);
 
   Surface s;
@@ -515,34 +526,9 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
                            word_of(s.scattering, kScatteringWords)));
   }
 
-  if (const toml::node* fn = tb.get("films")) {
-    const std::string fk = path + ".films";
-    const toml::array* arr = fn->as_array();
-    if (!arr)
-      fail_value(*fn, fk,
-                 fmt::format("{} where an array of tables was expected; allowed: [[{}]] tables with material "
-                             "and thickness",
-                             toml_type_name(*fn), fk));
-    for (std::size_t i = 0; i < arr->size(); ++i) {
-      const toml::node& e = *arr->get(i);
-      const std::string ek = fmt::format("{}[{}]", fk, i);
-      const toml::table* ft = e.as_table();
-      if (!ft)
-        fail_value(e, ek, fmt::format("{} where a table was expected; allowed: {{ material = ..., thickness = ... }}",
-                                      toml_type_name(e)));
-      check_keys(*ft, ek, {"material", "thickness"});
-      Film film;
-      const toml::node* m = ft->get("material");
-      if (!m) fail_missing(*ft, ek + ".material", "the film's material, e.g. \"sinx_pecvd_n209\"");
-      film.material = material(m, ek + ".material", "", *ft);
-      const toml::node* th = ft->get("thickness");
-      if (!th) fail_missing(*ft, ek + ".thickness", "the film's thickness as deposited on a planar wafer, e.g. \"75 nm\"");
-      film.thickness_nm = length_nm(*th, ek + ".thickness");
-      if (!(film.thickness_nm >= 0))
-        fail_value(*th, ek + ".thickness", "negative; allowed: a thickness >= 0, e.g. \"75 nm\"");
-      s.films.push_back(std::move(film));
-    }
-  }
+  s.films = read_films(tb, path);
+  if (!rear_medium)
+    if (const toml::table* gt = sub_table(tb, path, "grid")) grid_ = read_front_grid(*gt, path + ".grid");
   if (rear_medium) {
     const toml::node* mn = tb.get("medium");
     if (mn && mn->is_string() && mn->as_string()->get() == "perfect_mirror") {
@@ -572,8 +558,157 @@ Surface SceneReader::read_surface(const toml::table* t, const std::string& path,
     } else {
       *rear_medium = material(mn, path + ".medium", "air", tb);
     }
+    if (const toml::table* pt = sub_table(tb, path, "pattern")) {
+      if (s.interface_model == InterfaceModel::ideal)
+        fail_at(pt->source(), path + ".pattern",
+                "a patterned rear has films and media in each region; allowed: rear.interface = \"films\" with it");
+      if (rear_mirror_)
+        fail_at(pt->source(), path + ".pattern",
+                "the rear around the openings is a perfect mirror; allowed: a material or a measured reflectance "
+                "as rear.medium with [rear.pattern]");
+      pattern_ = read_rear_pattern(*pt, path + ".pattern");
+    }
   }
   return s;
+}
+
+std::vector<Film> SceneReader::read_films(const toml::table& tb, const std::string& path) {
+  std::vector<Film> films;
+  if (const toml::node* fn = tb.get("films")) {
+    const std::string fk = path + ".films";
+    const toml::array* arr = fn->as_array();
+    if (!arr)
+      fail_value(*fn, fk,
+                 fmt::format("{} where an array of tables was expected; allowed: [[{}]] tables with material "
+                             "and thickness",
+                             toml_type_name(*fn), fk));
+    for (std::size_t i = 0; i < arr->size(); ++i) {
+      const toml::node& e = *arr->get(i);
+      const std::string ek = fmt::format("{}[{}]", fk, i);
+      const toml::table* ft = e.as_table();
+      if (!ft)
+        fail_value(e, ek, fmt::format("{} where a table was expected; allowed: {{ material = ..., thickness = ... }}",
+                                      toml_type_name(e)));
+      check_keys(*ft, ek, {"material", "thickness"});
+      Film film;
+      const toml::node* m = ft->get("material");
+      if (!m) fail_missing(*ft, ek + ".material", "the film's material, e.g. \"sinx_pecvd_n209\"");
+      film.material = material(m, ek + ".material", "", *ft);
+      const toml::node* th = ft->get("thickness");
+      if (!th) fail_missing(*ft, ek + ".thickness", "the film's thickness as deposited on a planar wafer, e.g. \"75 nm\"");
+      film.thickness_nm = length_nm(*th, ek + ".thickness");
+      if (!(film.thickness_nm >= 0))
+        fail_value(*th, ek + ".thickness", "negative; allowed: a thickness >= 0, e.g. \"75 nm\"");
+      films.push_back(std::move(film));
+    }
+  }
+  return films;
+}
+
+FrontGrid SceneReader::read_front_grid(const toml::table& t, const std::string& path) {
+  check_keys(t, path, {"finger_shape", "finger_width", "finger_height", "finger_pitch", "busbar_pitch",
+                       "busbar_width", "material", "scattering", "diffuse_fraction"});
+  FrontGrid grid;
+  FrontGridGeometry& g = grid.geometry;
+  g.shape = word_or(t, path, "finger_shape", kFingerShapeWords, FingerShape::rectangle);
+  const auto required_length = [&](const char* key, const char* example) {
+    const toml::node* n = t.get(key);
+    if (!n) fail_missing(t, path + "." + key, fmt::format("a length > 0, e.g. \"{}\"", example));
+    return length_um_checked(*n, path + "." + key, true, example);
+  };
+  g.finger_width_um = required_length("finger_width", "40 um");
+  const bool wire = g.shape == FingerShape::round_wire;
+  if (wire) {
+    if (const toml::node* n = t.get("finger_height"))
+      fail_value(*n, path + ".finger_height",
+                 "a round wire's height is its diameter (finger_width); allowed: no finger_height with "
+                 "finger_shape = \"round_wire\"");
+    g.finger_height_um = g.finger_width_um;
+  } else {
+    g.finger_height_um = required_length("finger_height", "15 um");
+  }
+  const toml::node* pn = t.get("finger_pitch");
+  g.finger_pitch_um = required_length("finger_pitch", "1.5 mm");
+  if (!(g.finger_pitch_um > g.finger_width_um))
+    fail_value(*pn, path + ".finger_pitch",
+               fmt::format("not larger than finger_width ({} µm); allowed: a pitch > finger_width",
+                           format_number(g.finger_width_um)));
+  const toml::node* bp = t.get("busbar_pitch");
+  const toml::node* bw = t.get("busbar_width");
+  if (bp || bw) {
+    if (!bp) fail_missing(t, path + ".busbar_pitch", "the busbar pitch (a length > busbar_width) with busbar_width");
+    if (!bw) fail_missing(t, path + ".busbar_width", "the busbar width (a length > 0) with busbar_pitch");
+    g.busbar_pitch_um = length_um_checked(*bp, path + ".busbar_pitch", true, "39 mm");
+    g.busbar_width_um = length_um_checked(*bw, path + ".busbar_width", true, "1 mm");
+    if (!(g.busbar_pitch_um > g.busbar_width_um))
+      fail_value(*bp, path + ".busbar_pitch",
+                 fmt::format("not larger than busbar_width ({} µm); allowed: a pitch > busbar_width",
+                             format_number(g.busbar_width_um)));
+  }
+  const toml::node* mn = t.get("material");
+  if (!mn) fail_missing(t, path + ".material", "the metal's optical constants, e.g. \"ag_mcpeak2015\"");
+  grid.metal = material(mn, path + ".material", "", t);
+  grid.scattering = word_or(t, path, "scattering", kScatteringWords, SurfaceScattering::specular);
+  const toml::node* df = t.get("diffuse_fraction");
+  if (grid.scattering == SurfaceScattering::mixed) {
+    if (!df) fail_missing(t, path + ".diffuse_fraction", "a number in [0, 1] with scattering = \"mixed\"");
+    grid.diffuse_fraction = number(*df, path + ".diffuse_fraction", "a number in [0, 1]");
+    if (!(grid.diffuse_fraction >= 0 && grid.diffuse_fraction <= 1))
+      fail_value(*df, path + ".diffuse_fraction", "out of range; allowed: a number in [0, 1]");
+  } else if (df) {
+    fail_value(*df, path + ".diffuse_fraction", "allowed only with scattering = \"mixed\"");
+  }
+  return grid;
+}
+
+RearPattern SceneReader::read_rear_pattern(const toml::table& t, const std::string& path) {
+  check_keys(t, path, {"layout", "pitch", "width", "diameter", "lattice", "films", "medium"});
+  RearPattern p;
+  RearPatternGeometry& g = p.geometry;
+  const toml::node* ln = t.get("layout");
+  if (!ln) fail_missing(t, path + ".layout", "\"lines\" or \"dots\"");
+  g.layout = word(*ln, path + ".layout", kPatternLayoutWords);
+  const toml::node* pn = t.get("pitch");
+  if (!pn) fail_missing(t, path + ".pitch", "the pattern's pitch, a length > 0, e.g. \"1 mm\"");
+  g.pitch_um = length_um_checked(*pn, path + ".pitch", true, "1 mm");
+  const bool lines = g.layout == RearPatternLayout::lines;
+  const std::string size_key = lines ? "width" : "diameter";
+  const std::string other_key = lines ? "diameter" : "width";
+  if (const toml::node* o = t.get(other_key))
+    fail_value(*o, path + "." + other_key,
+               fmt::format("not a key of layout = \"{}\"; allowed: {} (lines: width; dots: diameter, lattice)",
+                           lines ? "lines" : "dots", size_key));
+  const toml::node* sn = t.get(size_key);
+  if (!sn)
+    fail_missing(t, path + "." + size_key,
+                 fmt::format("the {} of the openings, a length in [0, pitch], e.g. \"{}\"",
+                             lines ? "width" : "diameter", lines ? "40 um" : "60 um"));
+  g.size_um = length_um_checked(*sn, path + "." + size_key, false, lines ? "40 um" : "60 um");
+  if (g.size_um > g.pitch_um)
+    fail_value(*sn, path + "." + size_key,
+               fmt::format("larger than the pitch ({} µm); allowed: a length in [0, pitch]", format_number(g.pitch_um)));
+  if (lines) {
+    if (const toml::node* o = t.get("lattice"))
+      fail_value(*o, path + ".lattice", "allowed only with layout = \"dots\"");
+  } else {
+    g.lattice = word_or(t, path, "lattice", kDotLatticeWords, DotLattice::square);
+  }
+  p.films = read_films(t, path);
+  const toml::node* mn = t.get("medium");
+  if (mn && mn->is_table() && mn->as_table()->contains("reflectance")) {
+    if (!p.films.empty())
+      fail_value(*mn, path + ".medium",
+                 "a measured reflectance describes the whole rear and cannot have films in front of it; "
+                 "allowed: { reflectance = ... } without [[" + path + ".films]], or a material");
+    const std::string keep = reflector_where_;
+    p.reflector = read_rear_reflector(*mn->as_table(), path + ".medium");
+    pattern_reflector_where_ = reflector_where_;
+    reflector_where_ = keep;
+    p.medium = material(nullptr, path + ".medium", "air", t);
+  } else {
+    p.medium = material(mn, path + ".medium", "air", t);
+  }
+  return p;
 }
 
 RearReflector SceneReader::read_rear_reflector(const toml::table& t, const std::string& key) {
@@ -851,6 +986,8 @@ Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ig
   s.rear = read_surface(sub_table(root, "", "rear"), "rear", &s.rear_medium);
   s.rear_perfect_mirror = rear_mirror_;
   s.rear_reflector = reflector_;
+  s.rear_pattern = pattern_;
+  s.front_grid = grid_;
 
   std::pair<double, double> spectrum_range;
   std::string spectrum_where, spectrum_shown;
@@ -877,6 +1014,17 @@ Scene SceneReader::read(const toml::table& root, const std::set<std::string>& ig
             reflector_where_, reflector_->file.string(), format_number(reflector_->wavelength_nm.front()),
             format_number(reflector_->wavelength_nm.back()), format_length_nm(w),
             format_number(reflector_->wavelength_nm.front()), format_number(reflector_->wavelength_nm.back())));
+  if (pattern_ && pattern_->reflector && !pattern_->reflector->wavelength_nm.empty())
+    for (double w : wl)
+      if (w < pattern_->reflector->wavelength_nm.front() || w > pattern_->reflector->wavelength_nm.back())
+        throw SceneError(fmt::format(
+            "{}: key 'rear.pattern.medium.reflectance': value \"{}\": the reflectance covers {}–{} nm, but the run "
+            "wavelength {} lies outside; allowed: run wavelengths inside {}–{} nm",
+            pattern_reflector_where_, pattern_->reflector->file.string(),
+            format_number(pattern_->reflector->wavelength_nm.front()),
+            format_number(pattern_->reflector->wavelength_nm.back()), format_length_nm(w),
+            format_number(pattern_->reflector->wavelength_nm.front()),
+            format_number(pattern_->reflector->wavelength_nm.back())));
   record_positions(root, "", s.positions);
   return s;
 }

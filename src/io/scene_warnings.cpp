@@ -23,6 +23,26 @@ std::vector<std::string> scene_warnings(const Scene& s) {
           "deterministic paths and its absorptance depends on thickness / period",
           name));
   }
+  // A rear pattern finer than a texture tile: the model treats the pattern
+  // and the texture as independent, which holds only when the pattern's
+  // features span many tiles (docs/scene-format.md, [rear.pattern]).
+  if (s.rear_pattern) {
+    const RearPatternGeometry& g = s.rear_pattern->geometry;
+    const double finest = std::min(g.size_um > 0 ? g.size_um : g.pitch_um, g.pitch_um - g.size_um > 0 ? g.pitch_um - g.size_um : g.pitch_um);
+    for (const auto& [name, surface] : {std::pair{"front", &s.front}, std::pair{"rear", &s.rear}}) {
+      const geometry::TextureDescriptor& d = geometry::texture_of(surface->texture);
+      std::string key(d.size_key);
+      if (key.empty() || !surface->texture.numbers.count(key)) key = "period";
+      if (!surface->texture.numbers.count(key)) continue;
+      const double tile = surface->texture.number(key);
+      if (tile > 0 && finest < tile)
+        w.push_back(fmt::format(
+            "{}: the rear pattern has features of {:g} um, finer than the {} texture tile ({}.{} = {:g} um): the "
+            "model takes pattern and texture as independent, which needs pattern features much larger than the "
+            "tile",
+            s.where("rear.pattern"), finest, name, name, key, tile));
+    }
+  }
   // Weakly absorbed light in a light-trapping wafer crosses the bulk about
   // 4 n² ≈ 50 times on average (n ≈ 3.5 for silicon near 1100 nm, from
   // memory; E. Yablonovitch, "Statistical ray optics", J. Opt. Soc. Am. 72,

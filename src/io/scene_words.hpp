@@ -20,6 +20,13 @@ inline const Words<SurfaceScattering> kScatteringWords = {{"specular", SurfaceSc
                                                           {"mixed", SurfaceScattering::mixed}};
 inline const Words<InterfaceModel> kInterfaceWords = {{"films", InterfaceModel::films},
                                                       {"ideal", InterfaceModel::ideal}};
+inline const Words<RearPatternLayout> kPatternLayoutWords = {{"lines", RearPatternLayout::lines},
+                                                           {"dots", RearPatternLayout::dots}};
+inline const Words<DotLattice> kDotLatticeWords = {{"square", DotLattice::square},
+                                                   {"hexagonal", DotLattice::hexagonal}};
+inline const Words<FingerShape> kFingerShapeWords = {{"rectangle", FingerShape::rectangle},
+                                                    {"half_ellipse", FingerShape::half_ellipse},
+                                                    {"round_wire", FingerShape::round_wire}};
 inline const Words<bool> kPolarizationTrackingWords = {{"tracked", true}, {"averaged", false}};
 inline const Words<ThicknessConvention> kConventionWords = {{"mean", ThicknessConvention::mean},
                                                             {"base", ThicknessConvention::base},

@@ -98,6 +98,49 @@ void write_surface(std::string& out, const PathText& path_text, const Surface& s
   }
 }
 
+/// [front.grid], when the front has one.
+void write_front_grid(std::string& out, const PathText& path_text, const FrontGrid& grid) {
+  const FrontGridGeometry& g = grid.geometry;
+  out += "\n[front.grid]\n";
+  out += fmt::format("finger_shape = \"{}\"\n", word_of(g.shape, kFingerShapeWords));
+  out += fmt::format("finger_width = {}\n", toml_quote(format_length_um(g.finger_width_um)));
+  if (g.shape != FingerShape::round_wire)
+    out += fmt::format("finger_height = {}\n", toml_quote(format_length_um(g.finger_height_um)));
+  out += fmt::format("finger_pitch = {}\n", toml_quote(format_length_um(g.finger_pitch_um)));
+  if (g.busbar_pitch_um > 0) {
+    out += fmt::format("busbar_pitch = {}\n", toml_quote(format_length_um(g.busbar_pitch_um)));
+    out += fmt::format("busbar_width = {}\n", toml_quote(format_length_um(g.busbar_width_um)));
+  }
+  out += fmt::format("material = {}\n", material_toml(grid.metal, path_text));
+  out += fmt::format("scattering = \"{}\"\n", word_of(grid.scattering, kScatteringWords));
+  if (grid.scattering == SurfaceScattering::mixed)
+    out += fmt::format("diffuse_fraction = {}\n", toml_float_text(grid.diffuse_fraction));
+}
+
+/// [rear.pattern] and its films, when the rear has openings.
+void write_rear_pattern(std::string& out, const PathText& path_text, const RearPattern& p) {
+  const RearPatternGeometry& g = p.geometry;
+  const bool lines = g.layout == RearPatternLayout::lines;
+  out += "\n[rear.pattern]\n";
+  out += fmt::format("layout = \"{}\"\n", word_of(g.layout, kPatternLayoutWords));
+  out += fmt::format("pitch = {}\n", toml_quote(format_length_um(g.pitch_um)));
+  out += fmt::format("{} = {}\n", lines ? "width" : "diameter", toml_quote(format_length_um(g.size_um)));
+  if (!lines) out += fmt::format("lattice = \"{}\"\n", word_of(g.lattice, kDotLatticeWords));
+  if (p.reflector) {
+    const RearReflector& r = *p.reflector;
+    out += fmt::format("medium = {{ reflectance = {}, diffuse_fraction = {} }}\n",
+                       r.file.empty() ? toml_float_text(r.constant_reflectance) : toml_quote(path_text(r.file.string())),
+                       toml_float_text(r.diffuse_fraction));
+  } else {
+    out += fmt::format("medium = {}\n", material_toml(p.medium, path_text));
+  }
+  for (const Film& f : p.films) {
+    out += "\n[[rear.pattern.films]]\n";
+    out += fmt::format("material = {}\n", material_toml(f.material, path_text));
+    out += fmt::format("thickness = {}\n", toml_quote(format_length_nm(f.thickness_nm)));
+  }
+}
+
 /// The scene's physics as TOML; `full` adds the header comments, the name
 /// and the thread count.
 std::string scene_toml(const Scene& s, bool full, const PathText& path_text) {
@@ -112,8 +155,10 @@ std::string scene_toml(const Scene& s, bool full, const PathText& path_text) {
                      material_toml(s.wafer.material, path_text), toml_quote(format_length_um(s.wafer.thickness_um)),
                      word_of(s.wafer.thickness_convention, kConventionWords));
   write_surface(out, path_text, s.front, "front", nullptr);
+  if (s.front_grid) write_front_grid(out, path_text, *s.front_grid);
   write_surface(out, path_text, s.rear, "rear", &s.rear_medium, s.rear_perfect_mirror,
                 s.rear_reflector ? &*s.rear_reflector : nullptr);
+  if (s.rear_pattern) write_rear_pattern(out, path_text, *s.rear_pattern);
 
   const Illumination& ill = s.illumination;
   out += "\n[illumination]\n";

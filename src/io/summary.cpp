@@ -28,6 +28,9 @@ struct Writer {
     for (const auto& c : losses) o[c.name] = current_json(c);
     j[key] = std::move(o);
   }
+  void operator()(const char* key, const CellFacts& c) {
+    if (!c.facts.empty()) j[key] = c.facts;
+  }
 };
 
 struct Reader {
@@ -43,6 +46,9 @@ struct Reader {
       losses.push_back({it.key(), e.at("mA_cm2").get<double>(), e.at("sigma_mA_cm2").get<double>(),
                         e.at("group").get<std::string>(), e.at("meaning").get<std::string>()});
     }
+  }
+  void operator()(const char* key, CellFacts& c) {
+    c.facts = j.contains(key) ? j.at(key) : ojson::object();
   }
 };
 

@@ -29,6 +29,13 @@ struct StateCurrent {
   std::string meaning;
 };
 
+/// Facts of cell features ([front.grid], [rear.pattern]): written only when
+/// the scene has them (an object of named numbers), so summary.json of other
+/// scenes keeps its keys; read when present.
+struct CellFacts {
+  nlohmann::ordered_json facts = nlohmann::ordered_json::object();
+};
+
 struct Summary {
   std::string format = kResultFormat;
   std::string tool_version;
@@ -76,6 +83,9 @@ struct Summary {
   double interactions_per_second = 0;
   double peak_memory_MB = 0;
   std::vector<std::string> warnings;
+  /// Geometric facts of the grid and rear pattern (grid_coverage,
+  /// grid_contact_fraction, rear_opening_fraction); empty without them.
+  CellFacts cell;
   // sweep variants
   std::string sweep_hash;
   std::string variant;
@@ -125,6 +135,7 @@ void visit_summary(S& s, Visit&& v) {
   v("interactions_per_second", s.interactions_per_second);
   v("peak_memory_MB", s.peak_memory_MB);
   v("warnings", s.warnings);
+  v("cell_geometry", s.cell);
   v("sweep_hash", s.sweep_hash);
   v("variant", s.variant);
   v("variant_index", s.variant_index);

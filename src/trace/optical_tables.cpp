@@ -17,10 +17,17 @@ Material material_from_ref(const MaterialRef& ref, const Scene& scene) {
 }
 
 SceneMaterials load_scene_materials(const Scene& scene) {
-  SceneMaterials m{material_from_ref(scene.ambient, scene), material_from_ref(scene.wafer.material, scene),
-                   material_from_ref(scene.rear_medium, scene), {}, {}};
+  SceneMaterials m;
+  m.ambient = material_from_ref(scene.ambient, scene);
+  m.bulk = material_from_ref(scene.wafer.material, scene);
+  m.rear_medium = material_from_ref(scene.rear_medium, scene);
   for (const auto& f : scene.front.films) m.front_films.push_back(material_from_ref(f.material, scene));
   for (const auto& f : scene.rear.films) m.rear_films.push_back(material_from_ref(f.material, scene));
+  if (scene.front_grid) m.grid_metal = material_from_ref(scene.front_grid->metal, scene);
+  if (scene.rear_pattern) {
+    m.opening_medium = material_from_ref(scene.rear_pattern->medium, scene);
+    for (const auto& f : scene.rear_pattern->films) m.opening_films.push_back(material_from_ref(f.material, scene));
+  }
   return m;
 }
 
@@ -153,6 +160,26 @@ WavelengthOptics make_wavelength_optics(const Scene& scene, const SceneMaterials
     throw std::runtime_error(fmt::format("the optical constants at {} nm are not finite numbers; media: {}; {}",
                                          fmt::format("{:g}", lambda), stack_media(scene, true),
                                          stack_media(scene, false)));
+  if (scene.front_grid) {
+    const cplx n_metal = mats.grid_metal.index_at(lambda);
+    o.grid_from_ambient = tabulate_stack(FilmStack{n_amb, {}, n_metal}, lambda, Incidence::from_a, samples);
+    o.front_contact = tabulate_stack(FilmStack{n_si, {}, n_metal}, lambda, Incidence::from_a, samples);
+    require_finite_table(o.grid_from_ambient, scene, true, lambda);
+    require_finite_table(o.front_contact, scene, true, lambda);
+  }
+  if (scene.rear_pattern) {
+    // The openings: the same rear with the openings' films and medium.
+    Scene opening = scene;
+    opening.rear.films = scene.rear_pattern->films;
+    opening.rear_medium = scene.rear_pattern->medium;
+    opening.rear_reflector = scene.rear_pattern->reflector;
+    opening.rear_perfect_mirror = false;
+    opening.rear_pattern.reset();
+    SceneMaterials om = mats;
+    om.rear_films = mats.opening_films;
+    om.rear_medium = mats.opening_medium;
+    o.rear_opening = make_wavelength_optics(opening, om, {}, rear_tilt_cos, lambda, samples).rear;
+  }
   return o;
 }
 

@@ -14,6 +14,10 @@ namespace lumtrap {
 struct SceneMaterials {
   Material ambient, bulk, rear_medium;
   std::vector<Material> front_films, rear_films;
+  /// [rear.pattern]: the openings' films and medium (empty without a pattern).
+  std::vector<Material> opening_films;
+  Material opening_medium;
+  Material grid_metal;  ///< [front.grid] metal (unset without a grid)
 };
 
 SceneMaterials load_scene_materials(const Scene& scene);
@@ -39,6 +43,13 @@ struct WavelengthOptics {
   double alpha_per_um = 0;  ///< absorption coefficient of the bulk, 4πk/λ
   double n_bulk = 1;        ///< real index of the bulk
   SurfaceOptics front, rear;
+  /// The rear in the openings of [rear.pattern] (same facet classes as `rear`);
+  /// unused without a pattern.
+  SurfaceOptics rear_opening;
+  /// [front.grid]: ambient | metal (light from the ambient meeting the grid)
+  /// and silicon | metal (light from the silicon meeting a contact), no
+  /// films; unused without a grid.
+  StackTable grid_from_ambient, front_contact;
 };
 
 /// Table of a perfect mirror (perfect conductor: r_s = -1, r_p = +1 in the

@@ -19,6 +19,8 @@ std::optional<std::string> planar_solver_problem(const Scene& sc) {
   if (sc.front.interface_model != InterfaceModel::films || sc.rear.interface_model != InterfaceModel::films)
     return "the planar solver needs interface = \"films\" on both surfaces";
   if (sc.rear_reflector) return "the planar solver has no measured rear reflectance (rear.medium = { reflectance = ... })";
+  if (sc.front_grid) return "the planar solver has no front grid ([front.grid])";
+  if (sc.rear_pattern) return "the planar solver has no patterned rear ([rear.pattern]); solve each region alone";
   if (sc.rear_perfect_mirror) return "the planar solver has no perfect mirror (rear.medium = \"perfect_mirror\")";
   if (sc.illumination.kind != IlluminationKind::collimated)
     return "the planar solver needs collimated illumination";

@@ -13,9 +13,12 @@ namespace lumtrap {
 
 class PhotonRng {
  public:
+  /// `stream` selects an independent stream of the same photon (0: the
+  /// transport's; 1: the macro-frame start position), so that a feature that
+  /// needs numbers of its own leaves the main stream unchanged.
   PhotonRng(std::uint64_t seed, std::uint64_t variant, std::uint64_t wavelength_index,
-            std::uint64_t photon_index)
-      : key_{{seed, variant}}, ctr_{{wavelength_index, photon_index, 0, 0}} {}
+            std::uint64_t photon_index, std::uint64_t stream = 0)
+      : key_{{seed, variant}}, ctr_{{wavelength_index, photon_index, 0, stream}} {}
 
   /// Uniform double in (0, 1] (never 0: safe for -log(u)).
   double uniform() {

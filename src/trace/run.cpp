@@ -9,6 +9,7 @@
 #include <numeric>
 #include <fmt/format.h>
 
+#include "io/cell_facts.hpp"
 #include "io/paired_difference.hpp"
 #include "io/scene_words.hpp"
 #include "trace/transport.hpp"
@@ -193,6 +194,7 @@ Results results_from_tallies(const PreparedRun& run, const std::vector<Wavelengt
   s.randomize_lateral = sc.run.randomize_lateral;
   s.thickness_convention = thickness_convention_word(sc.wafer.thickness_convention);
   s.thickness_um = sc.wafer.thickness_um;
+  s.cell = cell_facts(sc);
   s.front_triangles = run.model.front.mesh.triangles.size();
   s.rear_triangles = run.model.rear.mesh.triangles.size();
   s.target_J_G_sigma_mA_cm2 = sc.run.target_jg_error;

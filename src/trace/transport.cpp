@@ -5,6 +5,7 @@
 #include <limits>
 #include <numbers>
 
+#include "trace/front_grid_hit.hpp"
 #include "trace/polarization.hpp"
 #include "trace/rng.hpp"
 #include "trace/sampling.hpp"
@@ -32,6 +33,7 @@ struct Photon {
   int passes = 0;
   std::uint32_t group = 0;  // paired group: photon index mod TallyLayout::photon_groups
   unsigned last_prim = RTC_INVALID_GEOMETRY_ID;  // triangle of the last interaction in this zone
+  MacroPosition macro;      // lateral position in the macro frame (when the scene has one)
 };
 
 // The nearest hit of a single-precision Embree ray from o along d within
@@ -239,9 +241,10 @@ enum class Outcome { continues, ended };
 // probability diffuse_fraction, else as a mirror (field as at a perfect
 // conductor, r_s = -1, r_p = +1); otherwise absorbed in the reflector.
 Outcome meet_rear_reflector(const TraceContext& ctx, const SurfaceOptics& so, const Eigen::Vector3d& m,
-                            double cos_i, double eps, Photon& ph, PhotonRng& rng, WavelengthTally& t) {
+                            double cos_i, double eps, Photon& ph, PhotonRng& rng, WavelengthTally& t,
+                            EndState absorbed) {
   if (rng.uniform() >= so.reflector_R) {
-    end_in(ctx, ph, t, EndState::absorbed_rear_reflector);
+    end_in(ctx, ph, t, absorbed);
     return Outcome::ended;
   }
   const Eigen::Vector3d hit = ph.p;
@@ -261,7 +264,10 @@ Outcome meet_rear_reflector(const TraceContext& ctx, const SurfaceOptics& so, co
 Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph, PhotonRng& rng,
                  WavelengthTally& t) {
   const SurfaceModel& sm = front ? ctx.model->front : ctx.model->rear;
-  const SurfaceOptics& so = front ? ctx.optics->front : ctx.optics->rear;
+  // A patterned rear: the region under the photon's macro position decides
+  // the optics and where absorbed light is counted.
+  const bool opening = !front && ctx.rear_pattern && in_opening(*ctx.rear_pattern, ph.macro.x, ph.macro.y);
+  const SurfaceOptics& so = front ? ctx.optics->front : opening ? ctx.optics->rear_opening : ctx.optics->rear;
   const SurfaceScatter& sc = front ? ctx.front_scatter : ctx.rear_scatter;
   const Eigen::Vector3d& nout = sm.outward[prim];
   const double dn = ph.d.dot(nout);
@@ -273,8 +279,13 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   const Eigen::Vector3d m = from_inside ? Eigen::Vector3d(-nout) : nout;  // normal on the incident side
   if (so.reflector && !front)
-    return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.offset, ph, rng, t);
-  const StackTable& table = (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
+    return meet_rear_reflector(ctx, so, m, std::min(1.0, std::abs(dn)), sm.offset, ph, rng, t,
+                               opening ? EndState::absorbed_rear_opening_reflector : EndState::absorbed_rear_reflector);
+  // Light from the silicon under a finger or busbar meets the contact:
+  // silicon | metal, no films (io/front_grid.hpp).
+  const bool contact = front && from_inside && ctx.grid && on_contact(*ctx.grid, ph.macro.x, ph.macro.y);
+  const StackTable& table =
+      contact ? ctx.optics->front_contact : (from_inside ? so.from_inside : so.from_outside)[sm.facet_class[prim]];
   const double n1 = from_inside ? so.n_inside : so.n_outside;
   const double n2 = from_inside ? so.n_outside : so.n_inside;
   const double eta = n1 / n2;
@@ -290,7 +301,7 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   const double cos_i = diffuse ? std::sqrt(rng.uniform()) : std::min(1.0, std::abs(dn));
   const double sin2t = eta * eta * (1.0 - cos_i * cos_i);
   InterfaceResponse r;
-  if (so.ideal) {  // exact, no table: everything refracts unless totally reflected
+  if (so.ideal && !contact) {  // exact, no table: everything refracts unless totally reflected
     const cplx one(1, 0), zero(0, 0);
     r = sin2t >= 1.0 ? InterfaceResponse{one, one, zero, zero, 1, 1, 0, 0}
                      : InterfaceResponse{zero, zero, one, one, 0, 0, 1, 1};
@@ -333,8 +344,13 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   if (xi <= R + T || table.layers == 0) {  // transmission (no films: nothing else can happen)
     const bool to_outside = from_inside;
+    if (contact) {
+      end_in(ctx, ph, t, EndState::absorbed_front_contact);
+      return Outcome::ended;
+    }
     if (to_outside && so.outside_absorbs) {
-      end_in(ctx, ph, t, EndState::absorbed_rear_medium);  // only the rear medium can absorb (a metal)
+      // only the rear medium can absorb (a metal)
+      end_in(ctx, ph, t, opening ? EndState::absorbed_rear_opening_medium : EndState::absorbed_rear_medium);
       return Outcome::ended;
     }
     if (diffuse) {
@@ -360,7 +376,11 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   }
   // absorbed in one of the films
   const int layer = table.pick_absorbing_layer(cos_i, ws, wp, rng.uniform());
-  end_in(ctx, ph, t, front ? EndState::absorbed_front_film : EndState::absorbed_rear_film, layer);
+  end_in(ctx, ph, t,
+         front     ? EndState::absorbed_front_film
+         : opening ? EndState::absorbed_rear_opening_film
+                   : EndState::absorbed_rear_film,
+         layer);
   return Outcome::ended;
 }
 
@@ -414,11 +434,73 @@ void launch(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& r
   ph.optical_depth_left = -std::log(rng.uniform());
 }
 
+// Light from the ambient on its way to the cell plane, meeting the front grid
+// (io/front_grid.hpp, trace/front_grid_hit.hpp). On entry ph.macro is the
+// point of the cell plane the light would reach without a grid and ph.d its
+// direction. The metal reflects (ambient | metal Fresnel at the local angle,
+// or Lambertian by the grid's scattering) or absorbs; light reflected
+// downwards past the bodies lands on the cell beside them and goes on from
+// there (ph.macro, ph.d, ph.E updated); light leaving upwards is reflected
+// by the grid. Reflected light that meets another body is traced to it too.
+Outcome meet_grid_from_ambient(const TraceContext& ctx, Photon& ph, PhotonRng& rng, WavelengthTally& t) {
+  const FrontGridGeometry& g = *ctx.grid;
+  const double top = grid_top(g);
+  Eigen::Vector3d o = Eigen::Vector3d(ph.macro.x, ph.macro.y, 0) - ph.d * ((top + 1.0) / -ph.d.z());
+  constexpr int kMaxGridBounces = 100;
+  for (int bounce = 0; bounce < kMaxGridBounces; ++bounce) {
+    const GridHit h = first_grid_hit(g, o, ph.d);
+    if (!h.hit) {
+      if (ph.d.z() >= 0) {
+        end_in(ctx, ph, t, EndState::reflected_grid);
+        return Outcome::ended;
+      }
+      const Eigen::Vector3d land = o + (-o.z() / ph.d.z()) * ph.d;
+      MacroPosition m;
+      move_macro(ctx.macro, m, land.x(), land.y());
+      ph.macro = m;
+      return Outcome::continues;
+    }
+    const Eigen::Vector3d& m = h.normal;  // outward: on the incident side
+    const bool diffuse = ctx.grid_scatter.kind == SurfaceScattering::lambertian ||
+                         (ctx.grid_scatter.kind == SurfaceScattering::mixed &&
+                          rng.uniform() <= ctx.grid_scatter.diffuse_fraction);
+    const double cos_i = diffuse ? std::sqrt(rng.uniform()) : std::clamp(-ph.d.dot(m), 0.0, 1.0);
+    const InterfaceResponse r = ctx.optics->grid_from_ambient.at(cos_i);
+    const SPComponents sp = decompose(ph.E, ph.d, m);
+    const bool carry = ctx.track_polarization && !diffuse;
+    double ws = 0.5, wp = 0.5;
+    if (carry) {
+      ws = std::norm(sp.Es);
+      wp = std::norm(sp.Ep);
+      const double wsum = ws + wp;
+      ws /= wsum;
+      wp /= wsum;
+    }
+    if (rng.uniform() > r.Rs * ws + r.Rp * wp) {
+      end_in(ctx, ph, t, EndState::absorbed_grid);
+      return Outcome::ended;
+    }
+    if (diffuse) {
+      ph.d = cosine_weighted(m, rng.uniform(), rng.uniform());
+      ph.E = random_linear_field(ph.d, rng);
+    } else {
+      ph.d = (ph.d + 2.0 * cos_i * m).normalized();
+      set_field(ph, sp, r.rs, r.rp, carry, rng);
+    }
+    o = h.point + 1e-6 * m;
+  }
+  end_in(ctx, ph, t, EndState::unresolved);
+  return Outcome::ended;
+}
+
 void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng& rng, std::uint32_t group,
-               WavelengthTally& t) {
+               const MacroPosition& start, WavelengthTally& t) {
   Photon ph;
   ph.group = group;
+  ph.macro = start;
   launch(ctx, collimated, rng, ph);
+  if (ctx.grid && meet_grid_from_ambient(ctx, ph, rng, t) == Outcome::ended) return;
+  const bool macro = ctx.macro.active();
   const WaferModel& M = *ctx.model;
   const double alpha = ctx.optics->alpha_per_um;
   const TallyLayout& L = *ctx.layout;
@@ -437,6 +519,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
       }
       ++ph.passes;
       ++t.bulk_passes;
+      if (macro) move_macro(ctx.macro, ph.macro, path * ph.d.x(), path * ph.d.y());
       const SurfaceModel& next = down ? M.rear : M.front;
       if (ctx.randomize_lateral) {
         ph.p.x() = next.period * rng.uniform();
@@ -466,6 +549,7 @@ void trace_one(const TraceContext& ctx, const LaunchFrame& collimated, PhotonRng
     unsigned prim = 0;
     const Eigen::Vector3d start = ph.p;
     const ZoneExit ex = cross_zone(front ? *ctx.front_scene : *ctx.rear_scene, sm, ph, path, prim);
+    if (macro) move_macro(ctx.macro, ph.macro, path * ph.d.x(), path * ph.d.y());
     if (ph.medium == Medium::silicon) {
       const double f = absorb_along(ph, alpha, path);
       if (f >= 0) {
@@ -537,8 +621,15 @@ TraceContext make_trace_context(const Scene& scene, const WaferModel& model, con
   c.track_polarization = scene.run.track_polarization;
   c.seed = scene.run.seed;
   c.wavelength_index = wavelength_index;
+  c.macro = scene_macro_frame(scene);
+  c.rear_pattern = scene.rear_pattern ? &scene.rear_pattern->geometry : nullptr;
+  if (scene.front_grid) {
+    c.grid = &scene.front_grid->geometry;
+    c.grid_scatter = {scene.front_grid->scattering, scene.front_grid->diffuse_fraction};
+  }
   return c;
 }
+
 
 void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t end, WavelengthTally& tally) {
   const LaunchFrame collimated = collimated_frame(*ctx.illumination);
@@ -546,7 +637,12 @@ void trace_photons(const TraceContext& ctx, std::uint64_t begin, std::uint64_t e
     PhotonRng rng(ctx.seed, ctx.variant, ctx.wavelength_index, i);
     const auto group = std::uint32_t(i % std::uint64_t(ctx.layout->photon_groups));
     ++tally.photons;
-    trace_one(ctx, collimated, rng, group, tally);
+    MacroPosition start;
+    if (ctx.macro.active()) {  // from a stream of its own: the transport's numbers stay those of a plain scene
+      PhotonRng side(ctx.seed, ctx.variant, ctx.wavelength_index, i, 1);
+      start = macro_start(ctx.macro, side.uniform(), side.uniform());
+    }
+    trace_one(ctx, collimated, rng, group, start, tally);
   }
 }
 

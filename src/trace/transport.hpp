@@ -5,6 +5,7 @@
 #include <cstdint>
 
 #include "io/scene.hpp"
+#include "trace/macro_frame.hpp"
 #include "trace/embree_tile.hpp"
 #include "trace/optical_tables.hpp"
 #include "trace/tallies.hpp"
@@ -31,6 +32,12 @@ struct TraceContext {
   bool randomize_lateral = true;
   bool track_polarization = true;
   std::uint64_t seed = 1, variant = 0, wavelength_index = 0;
+  /// The macro frame (off without patterns) and the rear's openings (null: a uniform rear).
+  MacroFrame macro;
+  const RearPatternGeometry* rear_pattern = nullptr;
+  /// The front grid (null: none) and how its metal scatters reflected light.
+  const FrontGridGeometry* grid = nullptr;
+  SurfaceScatter grid_scatter;
 };
 
 TraceContext make_trace_context(const Scene& scene, const WaferModel& model, const TileScene& front,

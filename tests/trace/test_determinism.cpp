@@ -82,6 +82,55 @@ TEST(Determinism, CellFeaturesKeepThreadAndSplitInvariance) {
   EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_rear_reflector), 0u);
 }
 
+// A front grid and a patterned rear (macro frame, start position from its
+// own random stream) keep both invariances.
+const char* kPatternScene = R"(
+[wafer]
+thickness = "160 um"
+[front]
+texture = "upright_pyramids"
+[rear]
+medium = "al_rakic1995"
+[[rear.films]]
+material = "sinx_pecvd_n209"
+thickness = "100 nm"
+[front.grid]
+finger_shape = "round_wire"
+finger_width = "40 um"
+finger_pitch = "300 um"
+busbar_pitch = "3 mm"
+busbar_width = "200 um"
+material = "ag_mcpeak2015"
+[rear.pattern]
+layout = "dots"
+lattice = "hexagonal"
+pitch = "150 um"
+diameter = "60 um"
+medium = "al_rakic1995"
+[illumination]
+polar_angle = "20 deg"
+wavelengths = ["1100 nm"]
+[run]
+seed = 42
+)";
+
+TEST(Determinism, GridAndRearPatternKeepThreadAndSplitInvariance) {
+  auto run = prepare_run(test::scene_from_text(kPatternScene, "pattern"));
+  const auto one = with_threads(*run, 1);
+  const auto two = with_threads(*run, 2);
+  ASSERT_EQ(one.size(), two.size());
+  for (std::size_t i = 0; i < one.size(); ++i) EXPECT_TRUE(one[i] == two[i]) << "wavelength " << i;
+  const auto optics = wavelength_optics(*run, 0);
+  const WavelengthTally whole = trace_wavelength(*run, optics, 0, 0, 3000);
+  WavelengthTally parts = trace_wavelength(*run, optics, 0, 0, 1234);
+  parts += trace_wavelength(*run, optics, 0, 1234, 3000);
+  EXPECT_TRUE(whole == parts);
+  EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_rear_opening_medium), 0u);
+  EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_rear_medium), 0u);
+  EXPECT_GT(ended_in(run->layout, whole, EndState::absorbed_grid), 0u);
+  EXPECT_GT(ended_in(run->layout, whole, EndState::reflected_grid), 0u);
+}
+
 TEST(Determinism, DifferentSeedsDiffer) {
   Scene a = test::scene_from_text(kScene);
   Scene b = a;
