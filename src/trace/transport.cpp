@@ -4,6 +4,7 @@
 #include <cmath>
 #include <limits>
 #include <numbers>
+#include <utility>
 
 #include "trace/front_grid_hit.hpp"
 #include "trace/polarization.hpp"
@@ -260,6 +261,15 @@ Outcome meet_rear_reflector(const TraceContext& ctx, const SurfaceOptics& so, co
   return Outcome::continues;
 }
 
+// s and p power fractions of the arriving light (they add to 1): from its
+// field when the polarization is carried, half and half otherwise.
+inline std::pair<double, double> sp_power_fractions(const SPComponents& sp, bool carry) {
+  if (!carry) return {0.5, 0.5};
+  const double ws = std::norm(sp.Es), wp = std::norm(sp.Ep);
+  const double wsum = ws + wp;
+  return {ws / wsum, wp / wsum};
+}
+
 // One interaction with a surface triangle. `front` tells which surface.
 Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph, PhotonRng& rng,
                  WavelengthTally& t) {
@@ -314,14 +324,8 @@ Outcome interact(const TraceContext& ctx, bool front, unsigned prim, Photon& ph,
   // averaged mode (R = (R_s + R_p)/2 at every hit).
   const SPComponents sp = decompose(ph.E, ph.d, m);
   const bool carry = ctx.track_polarization && !diffuse;
-  double ws = 0.5, wp = 0.5;
-  if (carry) {
-    ws = std::norm(sp.Es);
-    wp = std::norm(sp.Ep);
-    const double wsum = ws + wp;
-    ws /= wsum;
-    wp /= wsum;
-  }
+  const auto w_sp = sp_power_fractions(sp, carry);
+  const double ws = w_sp.first, wp = w_sp.second;
   const double R = r.Rs * ws + r.Rp * wp;
   const double T = r.Ts * ws + r.Tp * wp;
   const double xi = rng.uniform();
@@ -468,14 +472,8 @@ Outcome meet_grid_from_ambient(const TraceContext& ctx, Photon& ph, PhotonRng& r
     const InterfaceResponse r = ctx.optics->grid_from_ambient.at(cos_i);
     const SPComponents sp = decompose(ph.E, ph.d, m);
     const bool carry = ctx.track_polarization && !diffuse;
-    double ws = 0.5, wp = 0.5;
-    if (carry) {
-      ws = std::norm(sp.Es);
-      wp = std::norm(sp.Ep);
-      const double wsum = ws + wp;
-      ws /= wsum;
-      wp /= wsum;
-    }
+    const auto w_sp = sp_power_fractions(sp, carry);
+    const double ws = w_sp.first, wp = w_sp.second;
     if (rng.uniform() > r.Rs * ws + r.Rp * wp) {
       end_in(ctx, ph, t, EndState::absorbed_grid);
       return Outcome::ended;
