@@ -40,7 +40,6 @@ echo "== sweep: scenes/k7_sinx_rear_sweep.toml (front SiNx 65-85 nm x Al/Ag rear
 echo "== fit: scenes/k7_fit_recipe_b.toml to its synthetic measured curve (2 film thicknesses, a few seconds)"
 "$BIN" fit scenes/k7_fit_recipe_b.toml --measured scenes/k7_fit_recipe_b_measured.csv \
   -o "$OUT/k7_fit_recipe_b-fit" --overwrite 2> /dev/null
-tr "," "\t" < "$OUT/k7_fit_recipe_b-fit/parameters.csv"
 FOLDERS=("$OUT/k7_polished_reference-planar" "$OUT/k7_polished_reference" "$OUT/k7_recipe_a_coarse"
          "$OUT/k7_recipe_b_standard" "$OUT/k7_recipe_c_fine" "$OUT/lambertian_limit_180um")
 echo "== plots (PNG + SVG) and reports (HTML) of every result and of the sweep"
